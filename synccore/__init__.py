@@ -1,0 +1,31 @@
+"""synccore: display timing cores for FPGAs.
+
+A YAML timing description is validated into a :class:`Spec`, derived into a
+:class:`Timing` (the reference model every test checks against), and emitted
+as Verilog-2001 and VHDL cores.
+"""
+
+from ._version import __version__
+from .emit import render_verilog, render_vhdl
+from .errors import Location, Problem, SpecError
+from .model import Outputs, Timing, timing
+from .schema import json_schema
+from .spec import Axis, CoreOptions, Spec, load, loads
+
+__all__ = [
+    "Axis",
+    "CoreOptions",
+    "Location",
+    "Outputs",
+    "Problem",
+    "Spec",
+    "SpecError",
+    "Timing",
+    "__version__",
+    "json_schema",
+    "load",
+    "loads",
+    "render_verilog",
+    "render_vhdl",
+    "timing",
+]

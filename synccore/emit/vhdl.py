@@ -1,0 +1,65 @@
+"""VHDL emitter (analyses as -93 and -2008): literals for the shared context, then ``core.vhd.j2``."""
+
+from __future__ import annotations
+
+from ..model import Timing
+from ..spec import Spec
+from ._context import CoreContext, build_context
+from ._jinja import environment
+
+
+def bit(value: int) -> str:
+    """A std_logic literal."""
+    return f"'{value & 1}'"
+
+
+def zeros(width: int) -> str:
+    """A string literal of ``width`` zero bits, e.g. ``"00"``."""
+    return '"' + "0" * width + '"'
+
+
+def port_type(width: int | None) -> str:
+    return "std_logic" if width is None else f"std_logic_vector({width - 1} downto 0)"
+
+
+def comment_lines(lines: tuple[str, ...]) -> list[str]:
+    return [f"-- {line}".rstrip() for line in lines]
+
+
+def render_vhdl(spec: Spec) -> str:
+    """The core of ``spec`` as VHDL text that analyses under -93 and -2008."""
+    ctx = build_context(Timing(spec))
+    return environment().get_template("core.vhd.j2").render(ctx=ctx, v=_vhdl_view(ctx))
+
+
+def _vhdl_view(ctx: CoreContext) -> dict[str, object]:
+    reset = ctx.port["rst_n"] if ctx.reset_active_low else ctx.port["rst"]
+    name_w = max(len(c.name) for c in ctx.constants)
+    consts = []
+    for c in ctx.constants:
+        if c.is_level:
+            decl = f"constant {c.name.ljust(name_w)} : std_logic := {bit(c.value)};"
+        else:
+            decl = f"constant {c.name.ljust(name_w)} : natural   := {c.value};"
+        consts.append((decl, c.comment))
+    decl_w = max(len(d) for d, _ in consts)
+    pname_w = max(len(p.name) for p in ctx.ports)
+    ports = []
+    for i, p in enumerate(ctx.ports):
+        mode = "in " if p.direction == "in" else "out"
+        end = ";" if i < len(ctx.ports) - 1 else ""
+        ports.append((f"{p.name.ljust(pname_w)} : {mode} {port_type(p.width)}{end}", p.comment))
+    port_w = max(len(t) for t, _ in ports)
+    outputs = [p for p in ctx.ports if p.direction == "out"]
+    return {
+        "header": comment_lines(ctx.header),
+        "constants": [f"{d.ljust(decl_w)}  -- {c}" for d, c in consts],
+        "ports": [f"{t.ljust(port_w)}  -- {c}" for t, c in ports],
+        "reset": reset,
+        "reset_level": bit(0 if ctx.reset_active_low else 1),
+        "outputs": [(p.name, p.base + "_q") for p in outputs],
+        "x_count_msb": ctx.x_count_bits - 1,
+        "y_msb": ctx.y_width - 1,
+        "x_shift_zeros": zeros(ctx.x_shift),
+        "out_w": max(len(p.name) for p in outputs),
+    }

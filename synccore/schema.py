@@ -1,0 +1,66 @@
+"""The JSON Schema of the timing description format, derived from the field table."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from .spec import SPEC_FIELDS, Field
+
+SCHEMA_ID = "https://synccore.invalid/schema/timing-1.json"
+
+
+def _field_schema(f: Field) -> dict[str, Any]:
+    s: dict[str, Any]
+    if f.kind == "section":
+        s = _section(f.fields)
+    elif f.kind == "int":
+        s = {"type": "integer"}
+        if f.minimum is not None:
+            s["minimum"] = f.minimum
+        if f.maximum is not None:
+            s["maximum"] = f.maximum
+    elif f.kind == "bool":
+        s = {"type": "boolean"}
+    elif f.kind == "choice":
+        s = {"enum": list(f.choices)}
+    elif f.kind == "identifier":
+        s = {"type": "string", "pattern": "^[A-Za-z](_?[A-Za-z0-9])*$"}
+    elif f.kind == "prefix":
+        s = {"type": "string", "pattern": "^([A-Za-z](_?[A-Za-z0-9])*_?)?$"}
+    elif f.kind == "frequency":
+        s = {
+            "anyOf": [
+                {"type": "number", "exclusiveMinimum": 0},
+                {
+                    "type": "string",
+                    "pattern": r"^\s*[0-9]+(\.[0-9]*)?([eE][+-]?[0-9]+)?\s*"
+                    r"([hH][zZ]|[kK][hH][zZ]|[mM][hH][zZ]|[gG][hH][zZ])?\s*$",
+                },
+            ]
+        }
+    else:  # pragma: no cover
+        raise AssertionError(f.kind)
+    s["description"] = f.doc
+    if not f.required and f.default is not None and f.kind != "section":
+        s["default"] = f.default
+    return s
+
+
+def _section(fields: tuple[Field, ...]) -> dict[str, Any]:
+    return {
+        "type": "object",
+        "properties": {f.name: _field_schema(f) for f in fields},
+        "required": [f.name for f in fields if f.required],
+        "additionalProperties": False,
+    }
+
+
+def json_schema() -> dict[str, Any]:
+    """The JSON Schema (draft 2020-12) of a synccore timing description."""
+    schema = {
+        "$schema": "https://json-schema.org/draft/2020-12/schema",
+        "$id": SCHEMA_ID,
+        "title": "synccore timing description",
+        **_section(SPEC_FIELDS),
+    }
+    return schema
