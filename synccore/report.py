@@ -9,16 +9,20 @@ from .units import fixed, hz, in_unit, percent
 def timing_table(t: Timing) -> list[tuple[str, ...]]:
     """Rows of the timing table: a header row, then one row per axis (and per-cycle row)."""
     h, v = t.spec.horizontal, t.spec.vertical
-    rows: list[tuple[str, ...]] = [
+
+    def row(label: str, nums: tuple[int, ...], polarity: str) -> tuple[str, ...]:
+        return (label, *(str(n) for n in nums), polarity)
+
+    rows = [
         ("", "active", "front", "sync", "back", "total", "sync polarity"),
-        ("horizontal (pixels)", *(str(n) for n in (h.active, h.front_porch, h.sync,
-                                                    h.back_porch, h.total)), h.sync_polarity),
+        row("horizontal (pixels)",
+            (h.active, h.front_porch, h.sync, h.back_porch, h.total), h.sync_polarity),
     ]  # fmt: skip
     if t.ppc > 1:
-        rows.append(("horizontal (cycles)", *(str(n) for n in (t.h_active, t.h_front, t.h_sync,
-                                                                t.h_back, t.h_total)), ""))  # fmt: skip
-    rows.append(("vertical (lines)", *(str(n) for n in (v.active, v.front_porch, v.sync,
-                                                         v.back_porch, v.total)), v.sync_polarity))  # fmt: skip
+        rows.append(row("horizontal (cycles)",
+                        (t.h_active, t.h_front, t.h_sync, t.h_back, t.h_total), ""))  # fmt: skip
+    rows.append(row("vertical (lines)",
+                    (v.active, v.front_porch, v.sync, v.back_porch, v.total), v.sync_polarity))  # fmt: skip
     return rows
 
 

@@ -105,16 +105,30 @@ def run_bench(
             always=True,
             log_file=build_dir / "build.log",
         )
-        results = runner.test(
-            test_module=bench,
-            hdl_toplevel=spec.name,
-            hdl_toplevel_lang=language,
-            build_dir=build_dir,
-            test_dir=build_dir,
-            test_args=test_args,
-            extra_env=extra,
-            timescale=("1ns", "1ps"),
-            log_file=log,
-        )
-    tests, failed = get_results(Path(results))
+        # The runner judges results itself (and exits) when it sees pytest; we judge them
+        # here, the same way from the command line and from the tests.
+        pytest_test = os.environ.pop("PYTEST_CURRENT_TEST", None)
+        results = build_dir / "results.xml"
+        results.unlink(missing_ok=True)
+        try:
+            runner.test(
+                test_module=bench,
+                hdl_toplevel=spec.name,
+                hdl_toplevel_lang=language,
+                build_dir=build_dir,
+                test_dir=build_dir,
+                test_args=test_args,
+                extra_env=extra,
+                timescale=("1ns", "1ps"),
+                log_file=log,
+                results_xml=str(results.resolve()),
+            )
+        except SystemExit:
+            pass  # the simulator exited non-zero; the results file (if any) says more
+        finally:
+            if pytest_test is not None:
+                os.environ["PYTEST_CURRENT_TEST"] = pytest_test
+    if not results.is_file():
+        return SimResult(0, 1, log)
+    tests, failed = get_results(results)
     return SimResult(tests, failed, log)

@@ -285,15 +285,20 @@ def _check_section(
     known = {f.name: f for f in fields}
     result: dict[str, Any] = {}
     ok = True
+    suggested: set[str] = set()
     for key in given:
         if key not in known:
-            hint = _near(key, list(known))
+            close = difflib.get_close_matches(key, [k for k in known if k not in given], n=1)
+            hint = f" (did you mean {close[0]!r}?)" if close else ""
+            suggested.update(close)
             out.add(node.key_locations[key], _join(path, key),
                     f"unknown key{hint}; allowed here: {_names(fields)}")  # fmt: skip
             ok = False
     for f in fields:
         if f.name not in given:
-            if f.required:
+            if f.name in suggested:  # already reported as a misspelling
+                ok = False
+            elif f.required:
                 out.add(node.location, _join(path, f.name), "required key is missing")
                 ok = False
             elif f.kind == "section":

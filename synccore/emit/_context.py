@@ -58,6 +58,27 @@ class CoreContext:
     x_count_bits: int  # bits of the cycle counter that make up x (0: x is always 0)
     x_shift: int  # zero bits appended to the cycle column (log2 pixels_per_clock)
 
+    # Most significant bit indices, so templates never compute.
+    @property
+    def h_msb(self) -> int:
+        return self.h_width - 1
+
+    @property
+    def v_msb(self) -> int:
+        return self.v_width - 1
+
+    @property
+    def x_msb(self) -> int:
+        return self.x_width - 1
+
+    @property
+    def y_msb(self) -> int:
+        return self.y_width - 1
+
+    @property
+    def x_count_msb(self) -> int:
+        return self.x_count_bits - 1
+
 
 def build_context(t: Timing) -> CoreContext:
     spec = t.spec

@@ -58,7 +58,5 @@ def _verilog_view(ctx: CoreContext) -> dict[str, object]:
         "v_zero": uint(0, ctx.v_width),
         "x_zero": uint(0, ctx.x_width),
         "y_zero": uint(0, ctx.y_width),
-        "x_count_msb": ctx.x_count_bits - 1,
-        "y_msb": ctx.y_width - 1,
         "x_shift_zeros": uint(0, ctx.x_shift) if ctx.x_shift else "",
     }

@@ -58,8 +58,6 @@ def _vhdl_view(ctx: CoreContext) -> dict[str, object]:
         "reset": reset,
         "reset_level": bit(0 if ctx.reset_active_low else 1),
         "outputs": [(p.name, p.base + "_q") for p in outputs],
-        "x_count_msb": ctx.x_count_bits - 1,
-        "y_msb": ctx.y_width - 1,
         "x_shift_zeros": zeros(ctx.x_shift),
         "out_w": max(len(p.name) for p in outputs),
     }
