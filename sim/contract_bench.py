@@ -4,22 +4,25 @@ Runs inside the simulator (cocotb).  The clock is driven from Python, which is
 slow, so this bench is for small modes; it checks reset values, the first
 output cycle after reset, and — with clock_enable — an irregular ce pattern.
 
-Environment: SYNCCORE_SPEC (spec path), SYNCCORE_CYCLES (cycles after reset,
-default one frame plus two lines), SYNCCORE_SEED (ce pattern seed).
+Environment: SYNCCORE_SPEC_JSON (the spec as written by synccore.spec.to_dict),
+SYNCCORE_CYCLES (cycles after reset, default one frame plus two lines),
+SYNCCORE_SEED (ce pattern seed).
 """
 
 from __future__ import annotations
 
+import json
 import os
 import random
 from dataclasses import fields
+from pathlib import Path
 
 import cocotb
 from cocotb.clock import Clock
 from cocotb.triggers import FallingEdge, ReadOnly, RisingEdge
 
-import synccore
-from synccore.model import Outputs
+from synccore.model import Outputs, Timing
+from synccore.spec import from_dict
 
 RESET_CYCLES = 3
 
@@ -34,8 +37,8 @@ def _read(dut, prefix: str) -> Outputs:
 
 @cocotb.test()
 async def port_contract(dut):
-    spec = synccore.load(os.environ["SYNCCORE_SPEC"])
-    t = synccore.timing(spec)
+    spec = from_dict(json.loads(Path(os.environ["SYNCCORE_SPEC_JSON"]).read_text()))
+    t = Timing(spec)
     core = spec.core
     p = spec.port_prefix
     cycles = int(os.environ.get("SYNCCORE_CYCLES", t.frame_cycles + 2 * t.h_total))

@@ -401,3 +401,29 @@ def load(path: str | Path) -> Spec:
 def loads(text: str, source: str = "<string>") -> Spec:
     """Parse and validate a timing description given as YAML text."""
     return validate(loader.load_text(text, source), source=source)
+
+
+def to_dict(spec: Spec) -> dict[str, Any]:
+    """The validated spec as plain JSON-ready values (the clock as an exact "num/den" string)."""
+    return {
+        "name": spec.name,
+        "pixel_clock_hz": f"{spec.pixel_clock_hz.numerator}/{spec.pixel_clock_hz.denominator}",
+        "horizontal": vars(spec.horizontal).copy(),
+        "vertical": vars(spec.vertical).copy(),
+        "core": vars(spec.core).copy(),
+        "port_prefix": spec.port_prefix,
+        "source": spec.source,
+    }
+
+
+def from_dict(data: dict[str, Any]) -> Spec:
+    """Rebuild a spec written by :func:`to_dict` (trusted input: no validation)."""
+    return Spec(
+        name=data["name"],
+        pixel_clock_hz=Fraction(data["pixel_clock_hz"]),
+        horizontal=Axis(**data["horizontal"]),
+        vertical=Axis(**data["vertical"]),
+        core=CoreOptions(**data["core"]),
+        port_prefix=data["port_prefix"],
+        source=data["source"],
+    )

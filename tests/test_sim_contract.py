@@ -32,19 +32,17 @@ RUNS = [("icarus", "08"), ("ghdl", "93"), ("ghdl", "08"), ("verilator", "08")]
 def test_port_contract(name: str, simulator: str, std: str, tmp_path: Path,
                        need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
     need_tool(simulator)
-    path = tmp_path / f"{name}.yaml"
-    path.write_text(CASES[name])
-    spec = synccore.load(path)
-    result = run_bench(spec, path, simulator=simulator, build_dir=tmp_path / "build", vhdl_std=std)
+    spec = synccore.loads(CASES[name], f"{name}.yaml")
+    result = run_bench(spec, simulator=simulator, run_dir=tmp_path / "run", vhdl_std=std)
     assert result.passed, result.log.read_text()[-4000:]
 
 
 def test_bench_catches_a_wrong_core(tmp_path: Path, need_tool: Callable[[str], Tool]) -> None:
     """The bench is not vacuous: a core built from a different front porch fails it."""
     need_tool("icarus")
-    good = tmp_path / "good.yaml"
-    good.write_text(timings.SMALL)
+    good = synccore.loads(timings.SMALL, "good.yaml")
     wrong = synccore.loads(timings.SMALL.replace("front_porch: 3", "front_porch: 4"), "wrong.yaml")
-    result = run_bench(wrong, good, simulator="icarus", build_dir=tmp_path / "build")
+    result = run_bench(good, simulator="icarus", run_dir=tmp_path / "run",
+                       core_text=synccore.render_verilog(wrong))  # fmt: skip
     assert not result.passed
     assert "hsync" in result.log.read_text()

@@ -1,0 +1,273 @@
+"""Stage 5: measuring a running core from its signal edges, and judging it against the spec.
+
+A simulator (through the cocotb bench in ``sim/``) or the built-in engine records
+an :class:`Event` whenever hsync, vsync or de changes.  :func:`measure` turns
+the events into figures (widths, porches, polarities, ranges, strobe counts),
+:func:`expected` says what the reference model wants for each, and
+:func:`compare` lays both side by side.  The events carry the count of
+advancing clock edges, so an irregular clock enable changes nothing here.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+
+from .model import Timing
+
+# The harness's monitor vector, least significant field first: (name, bits).
+MONITOR_FIELDS: tuple[tuple[str, int], ...] = (
+    ("adv", 32),  # advancing clock edges since reset
+    ("hsync", 1),
+    ("vsync", 1),
+    ("de", 1),
+    ("frame_start", 1),
+    ("line_start", 1),
+    ("x", 16),  # x delayed by the lead, so it lines up with de
+    ("y", 16),
+    ("x_last", 16),  # x on the last de cycle seen
+    ("step_faults", 16),  # cycles inside a de run where x did not advance by N or y changed
+    ("line_starts", 16),  # line_start pulses so far (modulo 2**16)
+    ("frame_starts", 16),
+)
+
+
+@dataclass(frozen=True)
+class Event:
+    """Every monitored value just after a change of hsync, vsync or de."""
+
+    adv: int
+    hsync: int
+    vsync: int
+    de: int
+    frame_start: int
+    line_start: int
+    x: int
+    y: int
+    x_last: int
+    step_faults: int
+    line_starts: int
+    frame_starts: int
+
+
+def decode(word: int) -> Event:
+    """Unpack one monitor vector read from the harness."""
+    values = {}
+    for name, bits in MONITOR_FIELDS:
+        values[name] = word & ((1 << bits) - 1)
+        word >>= bits
+    return Event(**values)
+
+
+@dataclass(frozen=True)
+class Figure:
+    """One measured quantity: its name, unit, and every distinct value seen (sorted)."""
+
+    key: str
+    label: str
+    unit: str
+    values: tuple[object, ...]
+
+    def text(self) -> str:
+        if not self.values:
+            return "not seen"
+        if len(self.values) == 1:
+            return str(self.values[0])
+        if all(isinstance(v, int) for v in self.values):
+            return f"{self.values[0]}..{self.values[-1]} (varies)"
+        return " / ".join(str(v) for v in self.values) + " (varies)"
+
+
+# key, label, unit — the table's rows, in order.
+QUANTITIES: tuple[tuple[str, str, str], ...] = (
+    ("first_de", "first de after reset", "cycle"),
+    ("line_total", "line total", "px"),
+    ("hsync_period", "hsync period", "px"),
+    ("h_active", "de run length", "px"),
+    ("h_front", "h front porch", "px"),
+    ("hsync_width", "hsync width", "px"),
+    ("h_back", "h back porch", "px"),
+    ("hsync_polarity", "hsync polarity", ""),
+    ("frame_total", "lines per frame", "lines"),
+    ("v_active", "active lines", "lines"),
+    ("v_front", "v front porch", "lines"),
+    ("vsync_width", "vsync width", "lines"),
+    ("v_back", "v back porch", "lines"),
+    ("vsync_polarity", "vsync polarity", ""),
+    ("vsync_offset", "vsync edge in line", "px"),
+    ("x_range", "x range", ""),
+    ("y_range", "y range", ""),
+    ("xy_steps", "x/y step faults", ""),
+    ("line_start", "line_start per frame", ""),
+    ("line_start_aligned", "line_start with de rise", ""),
+    ("frame_start", "frame_start per frame", ""),
+    ("frame_start_aligned", "frame_start with frame's first de", ""),
+)
+LABELS = {key: (label, unit) for key, label, unit in QUANTITIES}
+
+
+def _polarity(idle: set[int]) -> tuple[object, ...]:
+    return tuple(sorted("negative" if level else "positive" for level in idle))
+
+
+def _pulses(events: Sequence[Event], name: str, active: int) -> list[tuple[int, int | None]]:
+    """(start, end) advancing-edge counts of each pulse at level ``active``; end None if open."""
+    pulses: list[tuple[int, int | None]] = []
+    prev = None
+    for e in events:
+        level = getattr(e, name)
+        if level != prev:
+            if level == active:
+                pulses.append((e.adv, None))
+            elif pulses and pulses[-1][1] is None and prev is not None:
+                pulses[-1] = (pulses[-1][0], e.adv)
+            prev = level
+    return pulses
+
+
+def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
+    """Figures measured from the events of a run of at least two frames."""
+    ppc = t.ppc
+    found: dict[str, set[object]] = {key: set() for key, _, _ in QUANTITIES}
+
+    de_runs = [(s, e) for s, e in _pulses(events, "de", 1) if e is not None]
+    if de_runs:
+        found["first_de"].add(de_runs[0][0])
+    # Polarity: a sync's idle level is its level while de is high.
+    h_idle = {e.hsync for e in events if e.de}
+    v_idle = {e.vsync for e in events if e.de}
+    h_active_level = 1 - min(h_idle) if len(h_idle) == 1 else t.hsync_active_level
+    v_active_level = 1 - min(v_idle) if len(v_idle) == 1 else t.vsync_active_level
+    hs = [(s, e) for s, e in _pulses(events, "hsync", h_active_level) if e is not None]
+    vs = [(s, e) for s, e in _pulses(events, "vsync", v_active_level) if e is not None]
+
+    for (s1, _), (s2, _) in zip(hs, hs[1:], strict=False):
+        found["hsync_period"].add((s2 - s1) * ppc)
+    for s, e in hs:
+        found["hsync_width"].add((e - s) * ppc)
+    rises = [s for s, _ in de_runs]
+    line_total = min((b - a for a, b in zip(rises, rises[1:], strict=False)), default=0)
+    if line_total:
+        found["line_total"].add(line_total * ppc)
+    for s, e in de_runs:
+        found["h_active"].add((e - s) * ppc)
+        nxt = next((p for p in hs if p[0] >= e), None)
+        if nxt is not None and nxt[1] is not None:
+            found["h_front"].add((nxt[0] - e) * ppc)
+            back_rise = next((r for r in rises if r >= nxt[1]), None)
+            if back_rise is not None and back_rise - nxt[1] < line_total:
+                found["h_back"].add((back_rise - nxt[1]) * ppc)
+
+    # Frames: the de runs between consecutive vsync pulses.
+    if line_total:
+        for (s, e), nxt in zip(vs, [*vs[1:], None], strict=False):
+            before = [r for r in rises if r <= s]
+            if before:
+                offset = (s - before[-1]) % line_total
+                found["vsync_offset"].add(offset * ppc)
+                found["v_front"].add((s - offset - before[-1] - line_total) // line_total)
+                found["vsync_width"].add(_lines(e - s, line_total))
+                # The line in which vsync ends starts `offset` cycles before its end.
+                after = [r for r in rises if r >= e - offset]
+                if after:
+                    found["v_back"].add((after[0] - (e - offset)) // line_total)
+            if nxt is not None:
+                found["frame_total"].add(_lines(nxt[0] - s, line_total))
+
+    # Per frame, from one frame's first de rise to the next: coordinates and strobes.
+    by_adv = {e.adv: e for e in events}
+    frame_firsts = [r for i, r in enumerate(rises) if i == 0 or r - rises[i - 1] > line_total]
+    for start, stop in zip(frame_firsts, frame_firsts[1:], strict=False):
+        runs = [(s, e) for s, e in de_runs if start <= s < stop]
+        found["v_active"].add(len(runs))
+        rows = [by_adv[s].y for s, _ in runs]
+        firsts = {by_adv[s].x for s, _ in runs}
+        lasts = {by_adv[e].x_last for _, e in runs}
+        found["x_range"].add(f"{min(firsts)}..{max(lasts)}" if len(firsts) == 1 and len(lasts) == 1
+                             else f"{sorted(firsts)}..{sorted(lasts)}")  # fmt: skip
+        steady = rows == list(range(rows[0], rows[0] + len(rows)))
+        found["y_range"].add(f"{rows[0]}..{rows[-1]}" if steady else f"irregular {rows[:6]}")
+        found["line_start"].add((by_adv[stop].line_starts - by_adv[start].line_starts) % 65536)
+        found["frame_start"].add((by_adv[stop].frame_starts - by_adv[start].frame_starts) % 65536)
+        found["line_start_aligned"].add(
+            "yes" if all(by_adv[s].line_start for s, _ in runs) else "no")  # fmt: skip
+        found["frame_start_aligned"].add(
+            "yes" if by_adv[start].frame_start and not any(by_adv[s].frame_start for s, _ in runs[1:])
+            else "no")  # fmt: skip
+    if events:
+        found["xy_steps"].add(events[-1].step_faults)
+    found["hsync_polarity"] = set(_polarity(h_idle))
+    found["vsync_polarity"] = set(_polarity(v_idle))
+
+    return {
+        key: Figure(key, label, unit, tuple(sorted(found[key], key=_sort_key)))
+        for key, label, unit in QUANTITIES
+    }
+
+
+def _lines(cycles: int, line_total: int) -> object:
+    return cycles // line_total if cycles % line_total == 0 else f"{cycles}/{line_total} cycles"
+
+
+def _sort_key(value: object) -> tuple[int, str]:
+    return (0, f"{value:012d}") if isinstance(value, int) else (1, str(value))
+
+
+def expected(t: Timing) -> dict[str, object]:
+    """What the reference model says each measured quantity must be."""
+    h, v = t.spec.horizontal, t.spec.vertical
+    return {
+        "first_de": 1,
+        "line_total": h.total,
+        "hsync_period": h.total,
+        "h_active": h.active,
+        "h_front": h.front_porch,
+        "hsync_width": h.sync,
+        "h_back": h.back_porch,
+        "hsync_polarity": h.sync_polarity,
+        "frame_total": v.total,
+        "v_active": v.active,
+        "v_front": v.front_porch,
+        "vsync_width": v.sync,
+        "v_back": v.back_porch,
+        "vsync_polarity": v.sync_polarity,
+        "vsync_offset": t.v_sync_at_h * t.ppc,
+        "x_range": f"0..{h.active - t.ppc}",
+        "y_range": f"0..{v.active - 1}",
+        "xy_steps": 0,
+        "line_start": v.active,
+        "line_start_aligned": "yes",
+        "frame_start": 1,
+        "frame_start_aligned": "yes",
+    }
+
+
+@dataclass(frozen=True)
+class Row:
+    key: str
+    label: str
+    unit: str
+    want: object
+    got: dict[str, str]  # engine name -> measured text
+    ok: bool
+
+
+def compare(t: Timing, runs: dict[str, dict[str, Figure]]) -> list[Row]:
+    """One row per quantity: the expected value, each engine's measurement, and the verdict."""
+    want = expected(t)
+    rows = []
+    for key, label, unit in QUANTITIES:
+        got = {engine: figs[key].text() for engine, figs in runs.items()}
+        ok = all(figs[key].values == (want[key],) for figs in runs.values())
+        rows.append(Row(key, label, unit, want[key], got, ok))
+    return rows
+
+
+def failures(rows: Iterable[Row]) -> list[str]:
+    """One line per failed quantity, naming it and what each engine measured."""
+    out = []
+    for r in rows:
+        if not r.ok:
+            seen = ", ".join(f"{engine}: {text}" for engine, text in r.got.items())
+            out.append(f"{r.label}: want {r.want}{' ' + r.unit if r.unit else ''}, measured {seen}")
+    return out
