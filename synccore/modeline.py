@@ -77,7 +77,8 @@ def parse(text: str) -> Modeline:
     try:
         nums = [int(w) for w in words[1:9]]
     except ValueError:
-        raise ModelineError(f"positions must be whole numbers, got {' '.join(words[1:9])}") from None
+        got = " ".join(words[1:9])
+        raise ModelineError(f"positions must be whole numbers, got {got}") from None
     flags = [w.lower() for w in words[9:]]
     h_pol = v_pol = ""
     for flag in flags:
@@ -86,7 +87,8 @@ def parse(text: str) -> Modeline:
         elif flag in ("+vsync", "-vsync"):
             v_pol = "positive" if flag[0] == "+" else "negative"
         elif flag in _REFUSED_FLAGS:
-            raise ModelineError(f"{_REFUSED_FLAGS[flag]} modes are not supported, got flag {flag!r}")
+            raise ModelineError(
+                f"{_REFUSED_FLAGS[flag]} modes are not supported, got flag {flag!r}")
         elif flag in _IGNORED_FLAGS:
             continue
         else:

@@ -155,8 +155,8 @@ class ModeLookupError(ValueError):
 _SOURCE = re.compile(r"\s*(?:(dmt)\s*(?:id\s*)?(0x[0-9a-f]+|[0-9a-f]+h?)|(?:cta\s*)?vic\s*([0-9]+))"
                      r"(\s*\(1000/1001\)|\s*@\s*(?:59\.94|29\.97|23\.976))?\s*\Z",
                      re.IGNORECASE)  # fmt: skip
-_NAME = re.compile(r"\s*([0-9]+)\s*x\s*([0-9]+)\s*@\s*([0-9]+(?:\.[0-9]+)?)\s*(?:hz)?((?:\s+\w+)*)\s*\Z",
-                   re.IGNORECASE)  # fmt: skip
+_NAME = re.compile(r"\s*([0-9]+)\s*x\s*([0-9]+)\s*@\s*([0-9]+(?:\.[0-9]+)?)\s*(?:hz)?"
+                   r"((?:\s+\w+)*)\s*\Z", re.IGNORECASE)  # fmt: skip
 QUALIFIERS = ("dmt", "cta", "rb", "std")
 
 
@@ -189,7 +189,8 @@ def find(query: str) -> Mode:
     words = [w.lower() for w in m.group(4).split()]
     for w in words:
         if w not in QUALIFIERS:
-            raise ModeLookupError(f"unknown word {w!r} after the mode name; use dmt, cta, rb or std")
+            raise ModeLookupError(
+                f"unknown word {w!r} after the mode name; use dmt, cta, rb or std")
     try:
         wanted = Fraction(Decimal(rate))
     except ArithmeticError:  # pragma: no cover - the pattern admits only numbers

@@ -83,7 +83,7 @@ def resolve(doc: loader.Located) -> Resolved:
 
     if len(chosen) == 2:
         out.add(keys["formula"], "formula",
-                f"cannot be combined with standard (given at {keys['standard']}); give one")  # fmt: skip
+                f"cannot be combined with standard (at {keys['standard']}); give one")
     if chosen:
         alt = chosen[0]
         for k in explicit:
@@ -91,7 +91,7 @@ def resolve(doc: loader.Located) -> Resolved:
                                 f"which supplies it; remove one")  # fmt: skip
         if "fit" in given:
             out.add(keys["fit"], "fit",
-                    f"applies to datasheet ranges only; it cannot be combined with {alt}")  # fmt: skip
+                    f"applies to datasheet ranges only; cannot be combined with {alt}")
         node = given.pop(alt)
         given.pop("formula", None)
         given.pop("fit", None)
@@ -139,7 +139,8 @@ def _formula(node: loader.Node, result: Resolved, out: _Collector) -> None:
         return
     try:
         r = formulas.compute(values["method"], values["width"], values["height"],
-                             values["refresh"], video_optimized=values["video_optimized"])  # fmt: skip
+                             values["refresh"],
+                             video_optimized=values["video_optimized"])  # fmt: skip
     except formulas.FormulaError as exc:
         out.add(where, "formula", str(exc))
         return
@@ -167,7 +168,8 @@ def _parse_range(node: loader.Located, kind: str, minimum: int, path: str,
     values = _check_section(_range_fields(kind, minimum), node, path, out)
     if values is None:
         return None
-    lo, typ, hi = (None if values[k] is None else Fraction(values[k]) for k in ("min", "typ", "max"))
+    lo, typ, hi = (None if values[k] is None else Fraction(values[k])
+                   for k in ("min", "typ", "max"))  # fmt: skip
     assert lo is not None and hi is not None
     if lo > hi:
         out.add(node.location, path, f"min must not exceed max, got min {lo} and max {hi}")
@@ -264,7 +266,8 @@ def _int_or_none(node: loader.Node | None) -> int | None:
 
 def _solve(given: dict[str, loader.Node], keys: dict[str, Location],
            axes: dict[str, loader.Located], ranges: dict[str, fitting.Range | None],
-           target: dict[str, Any], fit_where: Location, out: _Collector) -> dict[str, Any] | None:  # fmt: skip
+           target: dict[str, Any], fit_where: Location,
+           out: _Collector) -> dict[str, Any] | None:  # fmt: skip
     """Run the fitter when every input it needs is valid; report honestly when it falls short."""
     if any(r is None for r in ranges.values()) or set(axes) != {"horizontal", "vertical"}:
         return None  # problems already recorded (or recorded later by the validator)
@@ -323,21 +326,21 @@ def _solve(given: dict[str, loader.Node], keys: dict[str, Location],
         return None
     tolerance = Fraction(target["tolerance_percent"]) / 100
     try:
-        r = fitting.fit(built["horizontal"], built["vertical"], clock_range,
-                        refresh=target["refresh"], tolerance=tolerance)  # fmt: skip
+        res = fitting.fit(built["horizontal"], built["vertical"], clock_range,
+                          refresh=target["refresh"], tolerance=tolerance)  # fmt: skip
     except fitting.FitError as exc:
         out.add(fit_where, "fit", str(exc))
         return None
-    off = f"{'+' if r.error >= 0 else ''}{fixed(r.error * 100, 3)} %"
-    landed = (f"target {fixed(r.target_refresh_hz, 3)} Hz, landed at {fixed(r.refresh_hz, 3)} Hz "
+    off = f"{'+' if res.error >= 0 else ''}{fixed(res.error * 100, 3)} %"
+    landed = (f"target {fixed(res.target_refresh_hz, 3)} Hz, landed at {fixed(res.refresh_hz, 3)} Hz "
               f"({off})")  # fmt: skip
-    bound = f"; limited by {', '.join(r.bounds)}" if r.bounds else ""
-    if not r.met:
+    bound = f"; limited by {', '.join(res.bounds)}" if res.bounds else ""
+    if not res.met:
         out.add(fit_where, "fit",
                 f"no values inside the datasheet ranges reach the target within "
                 f"{fixed(tolerance * 100, 2)} %: {landed}{bound}")  # fmt: skip
-    solved: dict[str, Any] = {"pixel_clock_hz": r.pixel_clock_hz}
-    for label, a in (("horizontal", r.horizontal), ("vertical", r.vertical)):
+    solved: dict[str, Any] = {"pixel_clock_hz": res.pixel_clock_hz}
+    for label, a in (("horizontal", res.horizontal), ("vertical", res.vertical)):
         for k in AXIS_RANGED:
             solved[f"{label}.{k}"] = getattr(a, k)
     solved["__notes__"] = [landed + bound]
