@@ -332,16 +332,16 @@ def _solve(given: dict[str, loader.Node], keys: dict[str, Location],
         out.add(fit_where, "fit", str(exc))
         return None
     off = f"{'+' if res.error >= 0 else ''}{fixed(res.error * 100, 3)} %"
-    landed = (f"target {fixed(res.target_refresh_hz, 3)} Hz, landed at {fixed(res.refresh_hz, 3)} Hz "
-              f"({off})")  # fmt: skip
+    landed = (f"target {fixed(res.target_refresh_hz, 3)} Hz, landed at "
+              f"{fixed(res.refresh_hz, 3)} Hz ({off})")  # fmt: skip
     bound = f"; limited by {', '.join(res.bounds)}" if res.bounds else ""
     if not res.met:
         out.add(fit_where, "fit",
                 f"no values inside the datasheet ranges reach the target within "
                 f"{fixed(tolerance * 100, 2)} %: {landed}{bound}")  # fmt: skip
     solved: dict[str, Any] = {"pixel_clock_hz": res.pixel_clock_hz}
-    for label, a in (("horizontal", res.horizontal), ("vertical", res.vertical)):
+    for label, chosen in (("horizontal", res.horizontal), ("vertical", res.vertical)):
         for k in AXIS_RANGED:
-            solved[f"{label}.{k}"] = getattr(a, k)
+            solved[f"{label}.{k}"] = getattr(chosen, k)
     solved["__notes__"] = [landed + bound]
     return solved
