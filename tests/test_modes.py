@@ -12,6 +12,7 @@ from click.testing import CliRunner
 
 from synccore import modes
 from synccore.cli import main
+from synccore.errors import SpecError
 from synccore.spec import Axis, loads
 
 P, N = "positive", "negative"
@@ -143,7 +144,7 @@ def test_spec_with_standard() -> None:
 
 
 def test_spec_standard_problems_are_located() -> None:
-    with pytest.raises(Exception) as info:
+    with pytest.raises(SpecError) as info:
         loads("name: hd\nstandard: 1280x768@60\nhorizontal: {}\n", "s.yaml")
     lines = str(info.value).splitlines()
     assert re.match(r"^s\.yaml:2:11: standard: is ambiguous: .*, got '1280x768@60'$", lines[0])
