@@ -234,7 +234,11 @@ def _ranges(given: dict[str, loader.Node], keys: dict[str, Location], doc: loade
             out.add(fit_where, "fit", "give refresh, pixel_clock_hz or both")
             target = None
 
-    solved = _solve(given, keys, axes, ranges, target, fit_where, out) if target else None
+    fit_at: dict[str, Location] = {}
+    if isinstance(fit_node, loader.Located) and isinstance(fit_node.value, dict):
+        fit_at = {k: n.location for k, n in fit_node.value.items()}
+    solved = (_solve(given, keys, axes, ranges, target, fit_where, fit_at, out)
+              if target else None)  # fmt: skip
     # Write the chosen numbers (or, after a problem, the typical ones) in place of the ranges.
     for path, n in range_nodes.items():
         value: Any
@@ -266,7 +270,7 @@ def _int_or_none(node: loader.Node | None) -> int | None:
 
 def _solve(given: dict[str, loader.Node], keys: dict[str, Location],
            axes: dict[str, loader.Located], ranges: dict[str, fitting.Range | None],
-           target: dict[str, Any], fit_where: Location,
+           target: dict[str, Any], fit_where: Location, fit_at: dict[str, Location],
            out: _Collector) -> dict[str, Any] | None:  # fmt: skip
     """Run the fitter when every input it needs is valid; report honestly when it falls short."""
     if any(r is None for r in ranges.values()) or set(axes) != {"horizontal", "vertical"}:
@@ -298,7 +302,7 @@ def _solve(given: dict[str, loader.Node], keys: dict[str, Location],
         assert clock_range is not None
         if board is not None:
             if board not in clock_range:
-                out.add(fit_where, "fit.pixel_clock_hz",
+                out.add(fit_at.get("pixel_clock_hz", fit_where), "fit.pixel_clock_hz",
                         f"lies outside the datasheet range {hz(clock_range.min)} .. "
                         f"{hz(clock_range.max)}, got {hz(board)}")  # fmt: skip
                 return None
@@ -309,7 +313,7 @@ def _solve(given: dict[str, loader.Node], keys: dict[str, Location],
 
         fixed_clock = parse_frequency(node.value) if isinstance(node, loader.Scalar) else None
         if board is not None and node is not None:
-            out.add(fit_where, "fit.pixel_clock_hz",
+            out.add(fit_at.get("pixel_clock_hz", fit_where), "fit.pixel_clock_hz",
                     f"conflicts with pixel_clock_hz (at {keys['pixel_clock_hz']}); give the "
                     "board clock once")  # fmt: skip
             return None
