@@ -61,8 +61,9 @@ def parse(text: str) -> Modeline:
     if words and words[0].lower() == "modeline":
         words = words[1:]
     name = ""
-    if words and not re.fullmatch(r"[0-9.]+", words[0]):
-        name = words.pop(0)
+    numeric = [bool(re.fullmatch(r"[0-9]+(?:\.[0-9]*)?", w)) for w in words]
+    if words and not numeric[0] and all(numeric[1:10]) and len(words) >= 10:
+        name = words.pop(0)  # a name, quoted or not, before the clock
     if len(words) < 9:
         raise ModelineError(
             "expected a clock in MHz and eight numbers (hdisp hsyncstart hsyncend htotal "
