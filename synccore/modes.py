@@ -92,7 +92,10 @@ class Mode:
             **({"also": list(self.also)} if self.also else {}),
             **({"note": self.note} if self.note else {}),
             "refresh": self.refresh_label,
-            "pixel_clock_hz": _number(self.pixel_clock_hz),
+            # The spec format takes whole Hz; 1000/1001 clocks also give their exact ratio.
+            "pixel_clock_hz": round(self.pixel_clock_hz),
+            **({"pixel_clock_exact_hz": _number(self.pixel_clock_hz)}
+               if self.pixel_clock_hz.denominator != 1 else {}),
             "horizontal": _axis_dict(self.horizontal),
             "vertical": _axis_dict(self.vertical),
         }

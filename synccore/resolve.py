@@ -230,9 +230,6 @@ def _ranges(given: dict[str, loader.Node], keys: dict[str, Location], doc: loade
     else:
         assert isinstance(fit_node, loader.Located)
         target = _check_section(FIT_FIELDS, fit_node, "fit", out)
-        if target is not None and target["refresh"] is None and target["pixel_clock_hz"] is None:
-            out.add(fit_where, "fit", "give refresh, pixel_clock_hz or both")
-            target = None
 
     fit_at: dict[str, Location] = {}
     if isinstance(fit_node, loader.Located) and isinstance(fit_node.value, dict):

@@ -162,3 +162,28 @@ def test_bad_range_is_located() -> None:
         loads(text, "p.yaml")
     assert re.match(r"^p\.yaml:5:16: horizontal\.front_porch: min must not exceed max, "
                     r"got min 354 and max 16$", str(info.value))
+
+
+def test_spec_fixed_clock_and_refresh_only() -> None:
+    text = PANEL.format(fit="  refresh: 60").replace(
+        "pixel_clock_hz: {min: 26.4 MHz, typ: 33.3 MHz, max: 46.8 MHz}", "pixel_clock_hz: 33 MHz")
+    s = loads(text)
+    assert s.pixel_clock_hz == 33_000_000
+    assert s.pixel_clock_hz / (s.horizontal.total * s.vertical.total) == 60
+
+
+def test_spec_target_defaults_to_typical_refresh() -> None:
+    # No refresh given: the target is the refresh of the typical values, which the
+    # clock range absorbs exactly at the typical porches.
+    s = loads(PANEL.format(fit="  tolerance_percent: 0.1"))
+    assert (s.horizontal.front_porch, s.vertical.front_porch) == (210, 22)
+    assert s.pixel_clock_hz == 33_300_000
+
+
+def test_fit_needs_a_target() -> None:
+    text = PANEL.format(fit="  {}").replace("fit:\n  {}", "fit: {}").replace(
+        "typ: 33.3 MHz, ", "")
+    with pytest.raises(SpecError) as info:
+        loads(text, "p.yaml")
+    assert str(info.value) == ("p.yaml:15:1: fit.refresh: required key is missing (the clock "
+                               "range has no typ to take the target from)")

@@ -162,6 +162,8 @@ def test_cli_modes_filter_and_clock_limit() -> None:
     assert set(e["horizontal"]) == {"active", "front_porch", "sync", "back_porch",
                                     "sync_polarity"}  # fmt: skip
     assert {"pixel_clock_hz", "vertical", "source"} <= set(e)
+    fractional = [e for e in entries if "pixel_clock_exact_hz" in e]
+    assert fractional and all(isinstance(e["pixel_clock_hz"], int) for e in entries)
     r = CliRunner().invoke(main, ["modes", "cta", "2160"])
     assert r.exit_code == 0 and "CTA VIC 97" in r.output and "DMT" not in r.output
     assert "5.940 Gbit/s" in r.output  # TMDS: 10 bits per pixel clock at 594 MHz
