@@ -108,8 +108,6 @@ def schema() -> None:
     click.echo(json.dumps(json_schema(), indent=2))
 
 
-
-
 # Standard timings (library, formulas, modelines) live in their own module.
 from .cli_modes import modes_command, new_command  # noqa: E402
 

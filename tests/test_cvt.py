@@ -165,3 +165,9 @@ def test_cli_new_with_method(tmp_path) -> None:
     assert (s.horizontal, s.vertical, s.pixel_clock_hz) == (r2.horizontal, r2.vertical,
                                                             r2.pixel_clock_hz)  # fmt: skip
     assert Fraction(0) < s.pixel_clock_hz
+
+
+def test_spec_and_formulas_agree_on_methods() -> None:
+    from synccore.spec import FORMULA_METHODS
+
+    assert FORMULA_METHODS == formulas.METHODS
