@@ -14,6 +14,8 @@ from fractions import Fraction
 
 import pytest
 from click.testing import CliRunner
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from synccore import formulas, modes
 from synccore.cli import main
@@ -171,3 +173,19 @@ def test_spec_and_formulas_agree_on_methods() -> None:
     from synccore.spec import FORMULA_METHODS
 
     assert FORMULA_METHODS == formulas.METHODS
+
+
+@settings(max_examples=200, deadline=None)
+@given(w=st.integers(320, 4096), h=st.integers(200, 2400), rate=st.integers(24, 144),
+       reduced=st.sampled_from([1, 2]))  # fmt: skip
+def test_property_reduced_blanking_rounds_the_clock_down_one_step(w, h, rate, reduced) -> None:
+    # VESA CVT 1.2, reduced blanking: the pixel clock is the ideal one rounded down
+    # to the clock step (0.25 MHz for RB v1, 0.001 MHz for RB v2), so the refresh
+    # lands at or just below the request, never more than one step away.
+    r = formulas.cvt(w, h, rate, reduced=reduced)
+    step = 250_000 if reduced == 1 else 1_000
+    frame = r.horizontal.total * r.vertical.total
+    assert r.pixel_clock_hz % step == 0
+    assert rate - Fraction(step, frame) < r.refresh_hz <= rate
+    assert r.horizontal.active == w and r.vertical.active == h
+    assert min(r.horizontal.front_porch, r.vertical.front_porch) >= 0

@@ -7,6 +7,8 @@ from fractions import Fraction
 
 import pytest
 from click.testing import CliRunner
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from synccore import modeline, modes
 from synccore.cli import main
@@ -95,3 +97,15 @@ def test_cli_bad_modeline() -> None:
     assert r.exit_code == 2
     assert re.match(r"^synccore: --modeline: expected a clock in MHz and eight numbers",
                     r.stderr)
+
+
+axis = st.builds(lambda a, f, s, b, p: Axis(a, f, s, b, p), st.integers(1, 5000),
+                 st.integers(0, 500), st.integers(1, 500), st.integers(0, 500),
+                 st.sampled_from([P, N]))  # fmt: skip
+
+
+@settings(max_examples=200, deadline=None)
+@given(h=axis, v=axis, clock=st.integers(1, 2_000_000_000))
+def test_property_round_trip(h: Axis, v: Axis, clock: int) -> None:
+    back = modeline.parse(modeline.format_line("m", Fraction(clock), h, v))
+    assert (back.pixel_clock_hz, back.horizontal, back.vertical) == (clock, h, v)
