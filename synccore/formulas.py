@@ -98,6 +98,15 @@ def _cell_width(width: int, rounded: int, method: str, notes: list[str]) -> None
         )
 
 
+def _sane(method: str, width: int, height: int, rate: Fraction, h: Axis, v: Axis,
+          clock: Fraction) -> None:  # fmt: skip
+    """Refuse what the formula yields for inputs far outside its design range."""
+    if min(h.front_porch, h.back_porch, v.front_porch, v.back_porch) < 0 or \
+            min(h.sync, v.sync) < 1 or clock <= 0:  # fmt: skip
+        raise FormulaError(f"{method.upper()} yields no usable timing for {width}x{height} at "
+                           f"{float(rate):g} Hz (a sync or porch comes out empty)")  # fmt: skip
+
+
 def _check(width: int, height: int, refresh: Fraction) -> None:
     if width < CELL_GRAN * 2 or height < 2:
         raise FormulaError(f"size {width}x{height} is too small for a timing formula")
@@ -174,9 +183,8 @@ def cvt(width: int, height: int, refresh: Fraction | int, *,
         h_pol = "positive"
     # Keep the requested width: the cell rounding moves into the front porch.
     h_front -= width - h_rnd
-    if h_front < 0:
-        raise FormulaError(f"width {width} leaves no front porch after cell rounding")
     h = Axis(width, h_front, h_sync, h_back, h_pol)
+    _sane(method, width, height, rate, h, v, Fraction(clock))
     return FormulaResult(method, Fraction(clock), h, v, tuple(notes))
 
 
@@ -202,11 +210,10 @@ def gtf(width: int, height: int, refresh: Fraction | int) -> FormulaResult:
     h_sync = _round(CVT_H_SYNC_PERCENT / 100 * h_total / CELL_GRAN) * CELL_GRAN
     h_back = h_blank // 2
     h_front = h_blank // 2 - h_sync - (width - h_rnd)
-    if h_front < 0:
-        raise FormulaError(f"width {width} leaves no front porch after cell rounding")
     notes.append("GTF does not round the pixel clock; a board's PLL will land near it")
     h = Axis(width, h_front, h_sync, h_back, "negative")
     v = Axis(height, GTF_MIN_PORCH, GTF_V_SYNC, v_sync_bp - GTF_V_SYNC, "positive")
+    _sane("gtf", width, height, rate, h, v, clock)
     return FormulaResult("gtf", clock, h, v, tuple(notes))
 
 

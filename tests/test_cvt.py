@@ -189,3 +189,17 @@ def test_property_reduced_blanking_rounds_the_clock_down_one_step(w, h, rate, re
     assert rate - Fraction(step, frame) < r.refresh_hz <= rate
     assert r.horizontal.active == w and r.vertical.active == h
     assert min(r.horizontal.front_porch, r.vertical.front_porch) >= 0
+
+
+@settings(max_examples=300, deadline=None)
+@given(method=st.sampled_from(formulas.METHODS), w=st.integers(16, 8000),
+       h=st.integers(2, 5000), rate=st.integers(1, 300))  # fmt: skip
+def test_property_formulas_give_a_usable_timing_or_say_why(method, w, h, rate) -> None:
+    try:
+        r = formulas.compute(method, w, h, rate)
+    except formulas.FormulaError as exc:
+        assert str(exc)
+        return
+    for a in (r.horizontal, r.vertical):
+        assert min(a.front_porch, a.back_porch) >= 0 and a.sync >= 1
+    assert (r.horizontal.active, r.vertical.active) == (w, h) and r.pixel_clock_hz > 0
