@@ -187,3 +187,16 @@ def test_fit_needs_a_target() -> None:
         loads(text, "p.yaml")
     assert str(info.value) == ("p.yaml:15:1: fit.refresh: required key is missing (the clock "
                                "range has no typ to take the target from)")
+
+
+@settings(max_examples=150, deadline=None)
+@given(h=axis_ranges(40), v=axis_ranges(30),
+       clock=st.tuples(st.integers(50_000, 200_000), st.integers(50_000, 200_000)).map(sorted),
+       refresh=st.integers(20, 120))  # fmt: skip
+def test_property_clock_range_is_never_left(h, v, clock, refresh) -> None:
+    lo, hi = clock
+    res = fit(h, v, r(lo, hi), refresh=Fraction(refresh))
+    assert lo <= res.pixel_clock_hz <= hi
+    assert inside(h, res.horizontal) and inside(v, res.vertical)
+    if res.met and lo < hi:
+        assert abs(res.error) <= Fraction(5, 1000)
