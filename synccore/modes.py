@@ -221,7 +221,7 @@ def find(query: str) -> Mode:
     if len(distinct) > 1:
         names = ", ".join(f"{d.source}{' (' + d.note + ')' if d.note else ''}" for d in distinct)
         raise ModeLookupError(f"is ambiguous: it matches {names}; name the source instead "
-                           "(e.g. 'DMT 0x55') or add dmt, cta, rb or std")  # fmt: skip
+                              f"(e.g. {distinct[0].source!r}) or add dmt, cta, rb or std")  # fmt: skip
     return found[0]
 
 
