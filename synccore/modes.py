@@ -220,8 +220,9 @@ def find(query: str) -> Mode:
             distinct.append(mode)
     if len(distinct) > 1:
         names = ", ".join(f"{d.source}{' (' + d.note + ')' if d.note else ''}" for d in distinct)
+        example = distinct[0].source
         raise ModeLookupError(f"is ambiguous: it matches {names}; name the source instead "
-                              f"(e.g. {distinct[0].source!r}) or add dmt, cta, rb or std")  # fmt: skip
+                              f"(e.g. {example!r}) or add dmt, cta, rb or std")
     return found[0]
 
 
