@@ -13,6 +13,7 @@ from ._version import __version__
 from .build import core_artifacts, write_artifacts
 from .errors import SpecError
 from .model import Timing
+from .modeline import format_line
 from .report import figures, options, timing_table
 from .schema import json_schema
 from .spec import Spec, load
@@ -55,7 +56,9 @@ def print_summary(spec: Spec, console: Console) -> None:
     facts = Table(show_header=False, box=None, pad_edge=False)
     facts.add_column(style="bold")
     facts.add_column()
-    for label, value in figures(t) + options(t):
+    origin = [("timing from", spec.origin)] if spec.origin else []
+    origin += [("note", n) for n in spec.notes]
+    for label, value in origin + figures(t) + options(t):
         facts.add_row(label, value)
     console.print(facts)
 
@@ -88,9 +91,15 @@ def build(spec: str, out_dir: str, force: bool) -> None:  # fmt: skip
 
 @main.command()
 @click.argument("spec", type=click.Path(dir_okay=False))
-def show(spec: str) -> None:
+@click.option("--modeline", "as_modeline", is_flag=True,
+              help="Print the timing as one X.Org modeline instead of the summary.")
+def show(spec: str, as_modeline: bool) -> None:
     """Validate SPEC and print its timing summary; writes nothing."""
-    print_summary(_load(spec), _console())
+    s = _load(spec)
+    if as_modeline:
+        click.echo(format_line(s.name, s.pixel_clock_hz, s.horizontal, s.vertical))
+        return
+    print_summary(s, _console())
 
 
 @main.command()
@@ -99,3 +108,8 @@ def schema() -> None:
     click.echo(json.dumps(json_schema(), indent=2))
 
 
+# Standard timings (library, formulas, modelines) live in their own module.
+from .cli_modes import modes_command, new_command  # noqa: E402
+
+main.add_command(modes_command)
+main.add_command(new_command)

@@ -6,6 +6,9 @@ from typing import Any
 
 from .spec import SPEC_FIELDS, Field
 
+TIMING_KEYS = ("pixel_clock_hz", "horizontal", "vertical")
+ALTERNATIVES = ["standard", "formula"]
+
 SCHEMA_ID = "https://synccore.invalid/schema/timing-1.json"
 
 
@@ -21,6 +24,10 @@ def _field_schema(f: Field) -> dict[str, Any]:
             s["maximum"] = f.maximum
     elif f.kind == "bool":
         s = {"type": "boolean"}
+    elif f.kind == "decimal":
+        s = {"type": "number", "minimum": 0}
+    elif f.kind == "text":
+        s = {"type": "string", "minLength": 1}
     elif f.kind == "choice":
         s = {"enum": list(f.choices)}
     elif f.kind == "identifier":
@@ -40,6 +47,8 @@ def _field_schema(f: Field) -> dict[str, Any]:
         }
     else:  # pragma: no cover
         raise AssertionError(f.kind)
+    if f.ranged:
+        s = {"anyOf": [s, _range(s)]}
     s["description"] = f.doc
     if not f.required and f.default is not None and f.kind != "section":
         s["default"] = f.default
@@ -55,6 +64,16 @@ def _section(fields: tuple[Field, ...]) -> dict[str, Any]:
     }
 
 
+def _range(value: dict[str, Any]) -> dict[str, Any]:
+    """A datasheet range {min, typ, max} of values shaped like ``value``."""
+    return {
+        "type": "object",
+        "properties": {"min": value, "typ": value, "max": value},
+        "required": ["min", "max"],
+        "additionalProperties": False,
+    }
+
+
 def json_schema() -> dict[str, Any]:
     """The JSON Schema (draft 2020-12) of a synccore timing description."""
     schema = {
@@ -63,4 +82,14 @@ def json_schema() -> dict[str, Any]:
         "title": "synccore timing description",
         **_section(SPEC_FIELDS),
     }
+    # The timing comes from exactly one of: explicit keys, a library entry, a formula.
+    explicit = [k for k in TIMING_KEYS]
+    schema["required"] = [k for k in schema["required"] if k not in explicit]
+    schema["oneOf"] = [
+        {"required": explicit, "not": {"anyOf": [{"required": [k]} for k in ALTERNATIVES]}},
+        *({"required": [k], "not": {"anyOf": [{"required": [x]}
+                                              for x in explicit + ["fit"] + ALTERNATIVES
+                                              if x != k]}}
+          for k in ALTERNATIVES),
+    ]  # fmt: skip
     return schema

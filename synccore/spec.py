@@ -42,7 +42,7 @@ class Field:
     """One key of the format: its kind, constraints, default and one line of documentation."""
 
     name: str
-    kind: str  # int | bool | choice | identifier | prefix | frequency | section
+    kind: str  # int | bool | choice | identifier | prefix | frequency | decimal | text | section
     doc: str
     required: bool = True
     default: Any = None
@@ -50,16 +50,18 @@ class Field:
     maximum: int | None = None
     choices: tuple[Any, ...] = ()
     fields: tuple[Field, ...] = ()
+    ranged: bool = False  # may also be a datasheet range {min, typ, max} (needs a fit: section)
 
 
 def _axis_fields(unit: str, what: str) -> tuple[Field, ...]:
     return (
         Field("active", "int", f"visible {unit} per {what}", minimum=1, maximum=MAX_AXIS),
         Field("front_porch", "int", f"blank {unit} after the active ones, before sync",
-              minimum=0, maximum=MAX_AXIS),
-        Field("sync", "int", f"{unit} during the sync pulse", minimum=1, maximum=MAX_AXIS),
+              minimum=0, maximum=MAX_AXIS, ranged=True),
+        Field("sync", "int", f"{unit} during the sync pulse", minimum=1, maximum=MAX_AXIS,
+              ranged=True),
         Field("back_porch", "int", f"blank {unit} after sync, before the next active ones",
-              minimum=0, maximum=MAX_AXIS),
+              minimum=0, maximum=MAX_AXIS, ranged=True),
         Field("sync_polarity", "choice", "positive: the sync line is high during the pulse",
               choices=POLARITIES),
     )  # fmt: skip
@@ -79,6 +81,27 @@ CORE_FIELDS = (
           required=False, default="hsync", choices=VSYNC_ALIGNS),
 )  # fmt: skip
 
+FORMULA_METHODS = ("cvt", "cvt-rb", "cvt-rb2", "gtf")
+
+FORMULA_FIELDS = (
+    Field("method", "choice", "cvt (standard blanking), cvt-rb, cvt-rb2 (reduced blanking "
+          "v1, v2) or gtf", choices=FORMULA_METHODS),
+    Field("width", "int", "active pixels per line", minimum=16, maximum=MAX_AXIS),
+    Field("height", "int", "active lines per frame", minimum=2, maximum=MAX_AXIS),
+    Field("refresh", "frequency", "frames per second, e.g. 60 or 59.94"),
+    Field("video_optimized", "bool", "cvt-rb2 only: lower the clock by 1000/1001",
+          required=False, default=False),
+)  # fmt: skip
+
+FIT_FIELDS = (
+    Field("refresh", "frequency", "target refresh in Hz; default: that of the typical values",
+          required=False),
+    Field("pixel_clock_hz", "frequency", "the fixed pixel clock the board makes, if fixed",
+          required=False),
+    Field("tolerance_percent", "decimal", "how far from the target still counts as met",
+          required=False, default=0.5),
+)  # fmt: skip
+
 PORT_FIELDS = (
     Field("prefix", "prefix", "text put before every port name, e.g. vga_",
           required=False, default=""),
@@ -86,8 +109,15 @@ PORT_FIELDS = (
 
 SPEC_FIELDS = (
     Field("name", "identifier", "module / entity name, legal in Verilog and VHDL"),
+    Field("standard", "text", 'a library timing instead of the explicit keys: "1280x720@60", '
+          '"DMT 0x55", "CTA VIC 4" (see synccore modes)', required=False),
+    Field("formula", "section", "a formula timing instead of the explicit keys",
+          required=False, fields=FORMULA_FIELDS),
+    Field("fit", "section", "target for datasheet ranges given as {min, typ, max}",
+          required=False, fields=FIT_FIELDS),
     Field("pixel_clock_hz", "frequency",
-          'pixel clock: a number in Hz or a string with a unit ("25.175 MHz", "25175 kHz")'),
+          'pixel clock: a number in Hz or a string with a unit ("25.175 MHz", "25175 kHz")',
+          ranged=True),
     Field("horizontal", "section", "timing within a line, in pixels",
           fields=_axis_fields("pixels", "line")),
     Field("vertical", "section", "timing within a frame, in lines",
@@ -139,6 +169,10 @@ class Spec:
     core: CoreOptions = CoreOptions()
     port_prefix: str = ""
     source: str = "<string>"
+    origin: str = ""
+    """Where the timing came from when not given explicitly: a library entry, a formula, a fit."""
+    notes: tuple[str, ...] = ()
+    """What the resolution step adjusted or wants the user to know, one sentence each."""
 
 
 # ---------------------------------------------------------------- frequencies
@@ -146,6 +180,7 @@ class Spec:
 _FREQUENCY = re.compile(
     r"\s*([0-9]+(?:\.[0-9]*)?(?:[eE][+-]?[0-9]+)?)\s*(hz|khz|mhz|ghz)?\s*\Z", re.IGNORECASE
 )
+_PLAIN = re.compile(r"\s*[0-9]+(?:\.[0-9]*)?\s*\Z")
 _UNIT = {None: 1, "hz": 1, "khz": 10**3, "mhz": 10**6, "ghz": 10**9}
 
 
@@ -153,7 +188,7 @@ def parse_frequency(value: Any) -> Fraction | None:
     """A frequency in Hz from a number or a string with a unit, exactly; None if not one."""
     if isinstance(value, bool):
         return None
-    if isinstance(value, int):
+    if isinstance(value, (int, Fraction)):
         return Fraction(value)
     if isinstance(value, float):
         return Fraction(Decimal(repr(value)))
@@ -222,6 +257,17 @@ def _check_value(f: Field, node: loader.Node, path: str, out: _Collector) -> Any
             allowed = ", ".join(str(c) for c in f.choices)
             hint = _near(str(value), [str(c) for c in f.choices])
             out.add(where, path, f"must be one of {allowed}, got {value!r}{hint}")
+            return None
+        return value
+    if f.kind == "decimal":
+        number = parse_frequency(value)  # a plain non-negative number, no unit
+        if number is None or isinstance(value, str) and not _PLAIN.match(value):
+            out.add(where, path, f"must be a number ≥ 0, got {value!r}")
+            return None
+        return number
+    if f.kind == "text":
+        if not isinstance(value, str) or not value.strip():
+            out.add(where, path, f"must be text, got {value!r}")
             return None
         return value
     if f.kind == "identifier":
@@ -332,15 +378,19 @@ def validate(doc: loader.Node, *, source: str = "<string>") -> Spec:
         loc = doc.location
         raise SpecError([Problem(loc, "", f"must be a mapping of {_names(SPEC_FIELDS)}, "
                                           f"got {_describe_node(doc)}")])  # fmt: skip
-    values = _check_section(SPEC_FIELDS, doc, "", out)
-    if values is None:
+    from .resolve import resolve  # late import: resolve builds on this module's helpers
+
+    resolved = resolve(doc)
+    out.problems.extend(resolved.problems)
+    values = _check_section(SPEC_FIELDS, resolved.doc, "", out)
+    if values is None or out.problems:
         raise SpecError(out.problems)
 
     h = Axis(**values["horizontal"])
     v = Axis(**values["vertical"])
     core = CoreOptions(**values["core"]) if values["core"] else CoreOptions()
     prefix: str = (values["ports"] or {}).get("prefix", "") or ""
-    _check_cross(doc, values["name"], h, v, core, prefix, out)
+    _check_cross(resolved.doc, values["name"], h, v, core, prefix, out)
     if out.problems:
         raise SpecError(out.problems)
     return Spec(
@@ -351,6 +401,8 @@ def validate(doc: loader.Node, *, source: str = "<string>") -> Spec:
         core=core,
         port_prefix=prefix,
         source=source,
+        origin=resolved.origin,
+        notes=resolved.notes,
     )
 
 

@@ -1,0 +1,204 @@
+"""The built-in mode library: arithmetic of every entry, published values, lookup, CLI."""
+
+from __future__ import annotations
+
+import json
+import re
+from decimal import Decimal
+from fractions import Fraction
+
+import pytest
+from click.testing import CliRunner
+
+from synccore import modes
+from synccore.cli import main
+from synccore.errors import SpecError
+from synccore.spec import Axis, loads
+
+P, N = "positive", "negative"
+
+# Check values: (source, pixel clock in Hz, horizontal, vertical), each axis as
+# (active, front porch, sync, back porch, polarity) in the published tables' own
+# terms.  Sources: VESA DMT v1.0 rev 13 (DMT ID) and CTA-861 (VIC), as reproduced
+# in the Linux kernel's drivers/gpu/drm/drm_edid.c tables (start/end/total
+# positions there; the porches below were worked out from them by hand).
+PUBLISHED = [
+    # VESA DMT v1.0 rev 13, DMT ID 0x04: 640x480@60
+    ("DMT 0x04", 25_175_000, (640, 16, 96, 48, N), (480, 10, 2, 33, N)),
+    # VESA DMT v1.0 rev 13, DMT ID 0x09: 800x600@60
+    ("DMT 0x09", 40_000_000, (800, 40, 128, 88, P), (600, 1, 4, 23, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 0x10: 1024x768@60
+    ("DMT 0x10", 65_000_000, (1024, 24, 136, 160, N), (768, 3, 6, 29, N)),
+    # VESA DMT v1.0 rev 13, DMT ID 0x23: 1280x1024@60
+    ("DMT 0x23", 108_000_000, (1280, 48, 112, 248, P), (1024, 1, 3, 38, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 0x55: 1280x720@60
+    ("DMT 0x55", 74_250_000, (1280, 110, 40, 220, P), (720, 5, 5, 20, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 0x3A: 1680x1050@60 (CVT)
+    ("DMT 0x3A", 146_250_000, (1680, 104, 176, 280, N), (1050, 3, 6, 30, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 0x44: 1920x1200@60 reduced blanking (CVT-RB)
+    ("DMT 0x44", 154_000_000, (1920, 48, 32, 80, P), (1200, 3, 6, 26, N)),
+    # VESA DMT v1.0 rev 13, DMT ID 0x45: 1920x1200@60 (CVT)
+    ("DMT 0x45", 193_250_000, (1920, 136, 200, 336, N), (1200, 3, 6, 36, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 0x4C: 2560x1600@60 reduced blanking (CVT-RB)
+    ("DMT 0x4C", 268_500_000, (2560, 48, 32, 80, P), (1600, 3, 6, 37, N)),
+    # VESA DMT v1.0 rev 13, DMT ID 0x57: 4096x2160@60 reduced blanking v2 (CVT-RB2)
+    ("DMT 0x57", 556_744_000, (4096, 8, 32, 40, P), (2160, 48, 8, 6, N)),
+    # CTA-861, VIC 4: 1280x720p@60
+    ("CTA VIC 4", 74_250_000, (1280, 110, 40, 220, P), (720, 5, 5, 20, P)),
+    # CTA-861, VIC 16: 1920x1080p@60
+    ("CTA VIC 16", 148_500_000, (1920, 88, 44, 148, P), (1080, 4, 5, 36, P)),
+    # CTA-861, VIC 17: 720x576p@50
+    ("CTA VIC 17", 27_000_000, (720, 12, 64, 68, N), (576, 5, 5, 39, N)),
+    # CTA-861, VIC 19: 1280x720p@50
+    ("CTA VIC 19", 74_250_000, (1280, 440, 40, 220, P), (720, 5, 5, 20, P)),
+    # CTA-861, VIC 31: 1920x1080p@50
+    ("CTA VIC 31", 148_500_000, (1920, 528, 44, 148, P), (1080, 4, 5, 36, P)),
+    # CTA-861, VIC 93: 3840x2160p@24
+    ("CTA VIC 93", 297_000_000, (3840, 1276, 88, 296, P), (2160, 8, 10, 72, P)),
+    # CTA-861, VIC 97: 3840x2160p@60
+    ("CTA VIC 97", 594_000_000, (3840, 176, 88, 296, P), (2160, 8, 10, 72, P)),
+    # CTA-861, VIC 102: 4096x2160p@60
+    ("CTA VIC 102", 594_000_000, (4096, 88, 88, 128, P), (2160, 8, 10, 72, P)),
+    # CTA-861, VIC 2 at 59.94 Hz: 720x480p, 27.000 MHz
+    ("CTA VIC 2 (1000/1001)", 27_000_000, (720, 16, 62, 60, N), (480, 9, 6, 30, N)),
+]
+
+
+@pytest.mark.parametrize("source, clock, h, v", PUBLISHED, ids=[p[0] for p in PUBLISHED])
+def test_entry_matches_published_table(source: str, clock: int, h: tuple, v: tuple) -> None:
+    m = modes.find(source)
+    assert m.pixel_clock_hz == clock
+    assert m.horizontal == Axis(*h)
+    assert m.vertical == Axis(*v)
+
+
+# Published vertical frequencies (VESA DMT v1.0 rev 13, "Ver Frequency"; from memory).
+@pytest.mark.parametrize("source, hz", [
+    ("DMT 0x04", "59.940"),
+    ("DMT 0x05", "72.809"),
+    ("DMT 0x08", "56.250"),
+    ("DMT 0x09", "60.317"),
+    ("DMT 0x1C", "59.810"),
+])  # fmt: skip
+def test_dmt_vertical_frequency(source: str, hz: str) -> None:
+    m = modes.find(source)
+    assert abs(m.refresh_hz - Fraction(Decimal(hz))) < Fraction(1, 2000)
+
+
+@pytest.mark.parametrize("m", modes.library(), ids=lambda m: m.source)
+def test_every_entry_adds_up(m: modes.Mode) -> None:
+    for a in (m.horizontal, m.vertical):
+        assert a.total == a.active + a.front_porch + a.sync + a.back_porch
+        assert a.front_porch >= 0 and a.sync > 0 and a.back_porch >= 0
+        assert a.sync_polarity in (P, N)
+    assert m.refresh_hz == m.pixel_clock_hz / (m.horizontal.total * m.vertical.total)
+    nominal = m.nominal_refresh_hz
+    if m.family == "CTA":
+        # CTA-861 formats run at exactly their rate, or 1000/1001 of it, which the
+        # name rounds to 23.976, 29.97 or 59.94 (common practice).
+        assert abs(m.refresh_hz - nominal) < Fraction(1, 2000)
+    else:
+        # DMT names a mode by its nominal rate; the rate it runs at may differ by
+        # about 1 %: 640x480@72 runs at 72.809 Hz (VESA DMT v1.0 rev 13, from memory).
+        assert abs(m.refresh_hz / nominal - 1) < Fraction(12, 1000)
+
+
+def test_library_covers_the_range_asked_for() -> None:
+    names = {m.name for m in modes.library()}
+    for wanted in ("640x480@60", "800x600@60", "1024x768@60", "1280x1024@60",
+                   "1920x1080@60", "2560x1600@60", "3840x2160@24", "3840x2160@25",
+                   "3840x2160@30", "3840x2160@50", "3840x2160@60", "4096x2160@60",
+                   "1920x1080@59.94", "1920x1080@23.976"):  # fmt: skip
+        assert wanted in names
+    assert any(m.reduced_blanking for m in modes.library())
+
+
+def test_identical_duplicates_are_one_choice() -> None:
+    # DMT 0x55 and CTA VIC 4 are the same timing: no ambiguity.
+    assert modes.find("1280x720@60").horizontal == modes.find("CTA VIC 4").horizontal
+
+
+def test_alias_vic_is_found() -> None:
+    assert modes.find("CTA VIC 3").source == "CTA VIC 2"
+
+
+def test_ambiguous_name_is_refused_with_candidates() -> None:
+    with pytest.raises(modes.ModeLookupError, match=re.escape(
+            "is ambiguous: it matches DMT 0x16 (reduced blanking (CVT-RB)), DMT 0x17; ")):
+        modes.find("1280x768@60")
+    assert modes.find("1280x768@60 rb").source == "DMT 0x16"
+    assert modes.find("1280x768@60 std").source == "DMT 0x17"
+
+
+def test_unknown_name_suggests_sizes() -> None:
+    with pytest.raises(modes.ModeLookupError,
+                       match=r"^no library entry is 1024x768@61; this size exists as "
+                             r"1024x768@60, 1024x768@70, "):
+        modes.find("1024x768@61")
+
+
+def test_spec_with_standard() -> None:
+    s = loads("name: hd\nstandard: CTA VIC 16\n")
+    assert s.pixel_clock_hz == 148_500_000
+    assert s.origin == "CTA VIC 16 (1920x1080@60)"
+
+
+def test_spec_standard_problems_are_located() -> None:
+    with pytest.raises(SpecError) as info:
+        loads("name: hd\nstandard: 1280x768@60\nhorizontal: {}\n", "s.yaml")
+    lines = str(info.value).splitlines()
+    assert re.match(r"^s\.yaml:2:11: standard: is ambiguous: .*, got '1280x768@60'$", lines[0])
+    assert re.match(r"^s\.yaml:3:1: horizontal: cannot be given together with standard "
+                    r"\(at s\.yaml:2:1\), which supplies it; remove one$", lines[1])
+    assert len(lines) == 2
+
+
+def test_cli_modes_filter_and_clock_limit() -> None:
+    r = CliRunner().invoke(main, ["modes", "--max-clock", "30MHz", "--json"])
+    assert r.exit_code == 0
+    entries = json.loads(r.output)
+    assert entries and all(Fraction(e["pixel_clock_hz"]) <= 30_000_000 for e in entries)
+    e = entries[0]
+    assert set(e["horizontal"]) == {"active", "front_porch", "sync", "back_porch",
+                                    "sync_polarity"}  # fmt: skip
+    assert {"pixel_clock_hz", "vertical", "source"} <= set(e)
+    fractional = [e for e in entries if "pixel_clock_exact_hz" in e]
+    assert fractional and all(isinstance(e["pixel_clock_hz"], int) for e in entries)
+    r = CliRunner().invoke(main, ["modes", "cta", "2160"])
+    assert r.exit_code == 0 and "CTA VIC 97" in r.output and "DMT" not in r.output
+    assert "5.940 Gbit/s" in r.output  # TMDS: 10 bits per pixel clock at 594 MHz
+
+
+def test_cli_modes_bad_clock() -> None:
+    r = CliRunner().invoke(main, ["modes", "--max-clock", "fast"])
+    assert r.exit_code == 2
+    assert re.search(r'^synccore: --max-clock must be a frequency like "100MHz", got \'fast\'$',
+                     r.stderr, re.M)
+
+
+@pytest.mark.parametrize("m", modes.library(), ids=lambda m: m.source)
+def test_new_writes_a_spec_that_loads_as_the_entry(m: modes.Mode, tmp_path) -> None:
+    out = tmp_path / "t.yaml"
+    r = CliRunner().invoke(main, ["new", m.source, "-o", str(out)])
+    assert r.exit_code == 0, r.output
+    s = loads(out.read_text(), str(out))
+    assert (s.horizontal, s.vertical) == (m.horizontal, m.vertical)
+    # Clocks that are not whole Hz (1000/1001 variants) are written rounded to 1 Hz.
+    assert abs(s.pixel_clock_hz - m.pixel_clock_hz) <= Fraction(1, 2)
+
+
+def test_new_output_passes_show(tmp_path) -> None:
+    out = tmp_path / "hd.yaml"
+    runner = CliRunner()
+    assert runner.invoke(main, ["new", "1280x720@60", "-o", str(out)]).exit_code == 0
+    r = runner.invoke(main, ["show", str(out)])
+    assert r.exit_code == 0 and "74.250 MHz" in r.output
+    r = runner.invoke(main, ["new", "1280x720@60", "-o", str(out)])
+    assert r.exit_code == 2 and "exists; use --force" in r.stderr
+
+
+def test_new_to_stdout() -> None:
+    r = CliRunner().invoke(main, ["new", "DMT 0x04", "-o", "-"])
+    assert r.exit_code == 0
+    assert r.output.startswith("# Timing description written by `synccore new` from DMT 0x04")
+    assert loads(r.output).pixel_clock_hz == 25_175_000
