@@ -170,6 +170,8 @@ def _header(t: Timing) -> list[str]:
     lines = [
         f"{GENERATED_MARK} {__version__} from {source}; do not edit, regenerate instead.",
         f"Display timing core '{t.spec.name}'.",
+        *([f"Timing from: {t.spec.origin}."] if t.spec.origin else []),
+        *(f"Note: {note}" for note in t.spec.notes),
         "",
         *text_table(timing_table(t)),
         "",
