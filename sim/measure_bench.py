@@ -1,12 +1,13 @@
-"""Measurement bench: records the harness's monitor vector at every edge of hsync, vsync or de.
+"""Measurement bench: runs the harness of ``synccore.emit.harness`` to the requested length.
 
-Runs inside the simulator (cocotb) on the top level made by
-``synccore.emit.harness``.  The clock lives in HDL, and Python wakes only when
-a sync or de changes, so the simulator runs near its free-running speed.
+Runs inside the simulator (cocotb).  The clock lives in HDL and the harness
+itself writes an event line whenever hsync, vsync or de changes; Python wakes
+only once per frame (to report progress) and when the harness is done, so the
+simulator runs at its free-running speed.  The host reads the event file.
 
 Environment: SYNCCORE_SPEC_JSON (the spec as written by synccore.spec.to_dict),
-SYNCCORE_FRAMES, SYNCCORE_EVENTS (output file), SYNCCORE_PROGRESS (a file that
-gets the number of frames done).
+SYNCCORE_FRAMES, SYNCCORE_PROGRESS (a file that gets the number of frames done).
+The event file path and the stop count reach the harness as plusargs/generics.
 """
 
 from __future__ import annotations
@@ -16,8 +17,9 @@ import os
 from pathlib import Path
 
 import cocotb
-from cocotb.triggers import First, ReadOnly, Timer
+from cocotb.triggers import First, RisingEdge, Timer
 
+from synccore.measure import stop_count
 from synccore.model import Timing
 from synccore.spec import from_dict
 
@@ -30,28 +32,18 @@ async def measure(dut):
     spec = from_dict(json.loads(Path(os.environ["SYNCCORE_SPEC_JSON"]).read_text()))
     t = Timing(spec)
     frames = int(os.environ.get("SYNCCORE_FRAMES", "2"))
-    stop = frames * t.frame_cycles + 2 * t.h_total
+    stop = stop_count(t, frames)
     progress = Path(os.environ["SYNCCORE_PROGRESS"]) if "SYNCCORE_PROGRESS" in os.environ else None
-
-    mon = dut.mon
-    edges = First(dut.hsync.value_change, dut.vsync.value_change, dut.de.value_change)
-
-    async def watchdog() -> None:
-        # A dead core must not hang the run: give up well after the expected end.
-        await Timer(int((stop / WORST_CE_SHARE + 1000) * CLOCK_NS), unit="ns")
-        raise AssertionError(f"the run did not reach {stop} cycles: a sync or de stopped moving")
-
-    cocotb.start_soon(watchdog())
-    words: list[int] = []
-    frames_done = 0
-    adv = 0
-    while adv < stop:
-        await edges
-        await ReadOnly()
-        word = mon.value.to_unsigned()
-        words.append(word)
-        adv = word & 0xFFFFFFFF
-        if progress is not None and adv // t.frame_cycles > frames_done:
-            frames_done = adv // t.frame_cycles
-            progress.write_text(str(frames_done))
-    Path(os.environ["SYNCCORE_EVENTS"]).write_text(json.dumps(words))
+    deadline = Timer(int((stop / WORST_CE_SHARE + 1000) * CLOCK_NS), unit="ns")
+    done = RisingEdge(dut.done)
+    frame = RisingEdge(dut.frame_start)
+    count = 0
+    while True:
+        fired = await First(done, frame, deadline)
+        if fired is done:
+            break
+        if fired is deadline:
+            raise AssertionError(f"the harness did not reach {stop} cycles in time")
+        count += 1
+        if progress is not None:
+            progress.write_text(str(count - 1))  # the frame that just began is not done

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import json
 import sys
+from pathlib import Path
 
 import click
 from rich.console import Console
@@ -75,7 +76,9 @@ def main() -> None:
               help="Folder for the generated files (created if missing).")
 @click.option("--force", is_flag=True,
               help="Overwrite files in the folder even if synccore did not generate them.")
-def build(spec: str, out_dir: str, force: bool) -> None:  # fmt: skip
+@click.option("--verify", "then_verify", is_flag=True,
+              help="Then run the core in every simulator found and measure it (see `verify`).")
+def build(spec: str, out_dir: str, force: bool, then_verify: bool) -> None:  # fmt: skip
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = _load(spec)
     console = _console()
@@ -87,6 +90,8 @@ def build(spec: str, out_dir: str, force: bool) -> None:  # fmt: skip
     for path in written:
         console.print(f"wrote {path}")
     console.print(HARDWARE_CAUTION, style="dim")
+    if then_verify:
+        _run_verify(s, engines=None, frames=2, waves=False, work_dir=None, console=console)
 
 
 @main.command()
@@ -113,3 +118,92 @@ from .cli_modes import modes_command, new_command  # noqa: E402
 
 main.add_command(modes_command)
 main.add_command(new_command)
+
+
+def _engines_option(value: str | None) -> list[str] | None:
+    from .verify import ENGINES
+
+    if value is None:
+        return None
+    names = [v.strip() for v in value.split(",") if v.strip()]
+    bad = [n for n in names if n not in ENGINES]
+    if bad or not names:
+        raise click.BadParameter(
+            f"unknown engine {bad[0] if bad else value!r}; choose from {', '.join(ENGINES)}"
+        )
+    return names
+
+
+def _run_verify(spec: Spec, *, engines: list[str] | None, frames: int, waves: bool,
+                work_dir: str | None, console: Console) -> None:  # fmt: skip
+    from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
+
+    from .tools import INSTALL_HINT
+    from .verify import ENGINE_LANGUAGE, available_engines, verify
+
+    found = available_engines()
+    if engines is None:
+        engines = found
+        if not engines:
+            click.echo("no engine found: install a simulator or the amaranth extra", err=True)
+            sys.exit(2)
+    missing = [e for e in engines if e not in found]
+    if missing:
+        for e in missing:
+            hint = INSTALL_HINT.get(e, "install the PyPI package 'amaranth'")
+            click.echo(f"engine {e!r} not found: {hint}", err=True)
+        sys.exit(2)
+    t = Timing(spec)
+    with Progress(TextColumn("{task.description:<10}"), BarColumn(), MofNCompleteColumn(),
+                  TextColumn("frames"), TimeElapsedColumn(), console=console,
+                  transient=False) as bar:  # fmt: skip
+        tasks = {e: bar.add_task(e, total=frames) for e in engines}
+        report = verify(spec, engines=engines, frames=frames, waves=waves,
+                        work_dir=Path(work_dir) if work_dir else None,
+                        progress=lambda e, n: bar.update(tasks[e], completed=min(n, frames)))  # fmt: skip
+    table = Table(title=f"{spec.name}: measured over {frames} frames "
+                        f"({t.frame_cycles} cycles each)", title_justify="left")  # fmt: skip
+    table.add_column("quantity")
+    table.add_column("spec", justify="right")
+    ran = [r for r in report.runs if r.figures is not None]
+    for r in ran:
+        table.add_column(f"{r.engine}\n{ENGINE_LANGUAGE[r.engine]}", justify="right")
+    table.add_column("")
+    for row in report.rows:
+        want = f"{row.want} {row.unit}".strip()
+        table.add_row(row.label, want, *(row.got[r.engine] for r in ran),
+                      "ok" if row.ok else "[bold red]FAIL[/]")  # fmt: skip
+    console.print(table)
+    for r in report.runs:
+        speed = f"{r.cycles / r.seconds / 1e6:.2f} M cycles/s" if r.seconds and r.cycles else ""
+        console.print(f"{r.engine}: {r.seconds:.1f} s {speed}".rstrip())
+        for w in r.waves:
+            console.print(f"  waves: {w}")
+    if "builtin" in engines:
+        console.print("builtin: Amaranth's simulator ran the Amaranth model of this timing, "
+                      "not the emitted Verilog/VHDL text.")  # fmt: skip
+    if not report.ok:
+        for line in report.problems():
+            click.echo(f"FAIL {line}", err=True)
+        sys.exit(1)
+    console.print("all measured figures match the spec")
+
+
+@main.command(name="verify")
+@click.argument("spec", type=click.Path(dir_okay=False))
+@click.option("--sim", "sims", metavar="LIST",
+              help="Engines to run, comma-separated: icarus, ghdl, verilator, builtin "
+                   "(default: every one found).")
+@click.option("--frames", default=2, show_default=True, type=click.IntRange(2, 1000),
+              help="Frames to simulate.")
+@click.option("--waves", is_flag=True, help="Write waveform files (FST/VCD/GHW) of each run.")
+@click.option("--work-dir", type=click.Path(file_okay=False),
+              help="Keep run folders here (default: a temporary folder; with --waves, "
+                   "./<name>_verify).")
+def verify_command(spec: str, sims: str | None, frames: int, waves: bool,
+                   work_dir: str | None) -> None:  # fmt: skip
+    """Generate SPEC's core, run it in every simulator found, and measure it against the spec."""
+    engines = _engines_option(sims)
+    s = _load(spec)
+    _run_verify(s, engines=engines, frames=frames, waves=waves, work_dir=work_dir,
+                console=_console())

@@ -15,7 +15,8 @@ from dataclasses import dataclass
 
 from .model import Timing
 
-# The harness's monitor vector, least significant field first: (name, bits).
+# The monitored values, in the order of an event line (and least significant
+# field first where they are packed into one vector): (name, bits).
 MONITOR_FIELDS: tuple[tuple[str, int], ...] = (
     ("adv", 32),  # advancing clock edges since reset
     ("hsync", 1),
@@ -30,6 +31,11 @@ MONITOR_FIELDS: tuple[tuple[str, int], ...] = (
     ("line_starts", 16),  # line_start pulses so far (modulo 2**16)
     ("frame_starts", 16),
 )
+
+
+def stop_count(t: Timing, frames: int) -> int:
+    """Advancing edges a measurement runs for: the frames, plus two lines to see the next start."""
+    return frames * t.frame_cycles + 2 * t.h_total
 
 
 @dataclass(frozen=True)
@@ -48,6 +54,17 @@ class Event:
     step_faults: int
     line_starts: int
     frame_starts: int
+
+
+def parse_events(text: str) -> list[Event]:
+    """Events from a harness's event file: one line of integers per event, in field order."""
+    names = [name for name, _ in MONITOR_FIELDS]
+    out = []
+    for line in text.splitlines():
+        values = [int(v) for v in line.split()]
+        if len(values) == len(names):
+            out.append(Event(**dict(zip(names, values, strict=True))))
+    return out
 
 
 def decode(word: int) -> Event:

@@ -26,6 +26,7 @@ from .spec import Spec, to_dict
 from .tools import INSTALL_HINT, find
 
 VHDL_STANDARDS = {"93": "--std=93", "08": "--std=08"}
+_GENERIC = {"events": "events_path", "stop": "stop_at"}
 VERILATOR_ARGS = ["--timing", "-CFLAGS", "-std=c++20 -fcoroutines", "-Wno-fatal", "-O2"]
 
 
@@ -96,10 +97,13 @@ def run_bench(
     env: Mapping[str, str] | None = None,
     waves: bool = False,
     core_text: str | None = None,
+    harness_args: dict[str, str | int] | None = None,
 ) -> SimResult:
     """Build ``spec``'s core (with the measurement harness if asked) and run ``bench`` on it.
 
     ``core_text`` replaces the emitted core (used to show that benches catch faulty cores).
+    ``harness_args`` go to the harness as plusargs ``+synccore_<name>=<value>`` (Verilog) or
+    generics (VHDL).
     """
     from cocotb_tools.check_results import get_results
     from cocotb_tools.runner import get_runner
@@ -112,6 +116,13 @@ def run_bench(
     top = HARNESS_TOP if harness else spec.name
     build_args: list[str] = []
     test_args: list[str] = []
+    plusargs: list[str] = []
+    parameters: dict[str, object] = {}
+    for name, value in (harness_args or {}).items():
+        if language == "verilog":
+            plusargs.append(f"+synccore_{name}={value}")
+        else:
+            parameters[_GENERIC[name]] = value
     if simulator == "ghdl":
         build_args = test_args = [VHDL_STANDARDS[vhdl_std]]
     elif simulator == "verilator" and harness:
@@ -157,6 +168,8 @@ def run_bench(
                     log_file=log,
                     results_xml=str(results.resolve()),
                     waves=waves,
+                    plusargs=plusargs,
+                    parameters=parameters,
                 )
         except SystemExit:
             pass  # the simulator exited non-zero; the results file (if any) says more

@@ -3,8 +3,9 @@
 The harness makes the clock in HDL (so the simulator runs at full speed), holds
 reset for a few cycles, drives an irregular clock enable when the core has one,
 delays x/y by the core's lead (as the user's pixel pipeline would), counts
-advancing edges, and packs everything the measurement needs into one vector,
-``mon``, that the Python side reads only when hsync, vsync or de change.
+advancing edges, and writes a line of every monitored value to an event file whenever hsync,
+vsync or de changes.  Python reads the file after the run: it never wakes
+per clock cycle, so the simulator runs at its free-running speed.
 """
 
 from __future__ import annotations
@@ -35,9 +36,9 @@ class HarnessContext:
     lead_last: int  # index of the last stage of the lead delay line
     ppc: int
     lfsr_seed: int
-    fields_msb_first: tuple[tuple[str, int], ...]
-    mon_width: int
-    mon_msb: int
+    event_format: str  # Verilog $fwrite format of one event line
+    event_args: str  # its arguments
+    vhdl_event_items: tuple[str, ...]  # VHDL write() arguments of one event line
 
 
 def harness_context(spec: Spec) -> HarnessContext:
@@ -55,10 +56,34 @@ def harness_context(spec: Spec) -> HarnessContext:
         lead_last=spec.core.lead - 1,
         ppc=t.ppc,
         lfsr_seed=LFSR_SEED,
-        fields_msb_first=tuple(reversed(MONITOR_FIELDS)),
-        mon_width=sum(w for _, w in MONITOR_FIELDS),
-        mon_msb=sum(w for _, w in MONITOR_FIELDS) - 1,
+        event_format=" ".join("%0d" for _ in MONITOR_FIELDS),
+        event_args=", ".join(_VERILOG_SOURCE[name] for name, _ in MONITOR_FIELDS),
+        vhdl_event_items=_vhdl_items(),
     )
+
+
+# Harness signal behind each monitored field.
+_VERILOG_SOURCE = {
+    "adv": "adv", "hsync": "hsync", "vsync": "vsync", "de": "de", "frame_start": "frame_start",
+    "line_start": "line_start", "x": "x_d", "y": "y_d", "x_last": "x_last",
+    "step_faults": "step_faults", "line_starts": "line_starts", "frame_starts": "frame_starts",
+}  # fmt: skip
+_VHDL_SOURCE = {
+    "adv": "to_integer(adv)", "hsync": "as_int(hsync)", "vsync": "as_int(vsync)",
+    "de": "as_int(de)", "frame_start": "as_int(frame_start)", "line_start": "as_int(line_start)",
+    "x": "to_integer(unsigned(x_d))", "y": "to_integer(unsigned(y_d))",
+    "x_last": "to_integer(unsigned(x_last))", "step_faults": "to_integer(step_faults)",
+    "line_starts": "to_integer(line_starts)", "frame_starts": "to_integer(frame_starts)",
+}  # fmt: skip
+
+
+def _vhdl_items() -> tuple[str, ...]:
+    items: list[str] = []
+    for i, (name, _) in enumerate(MONITOR_FIELDS):
+        if i:
+            items.append("string'(\" \")")
+        items.append(_VHDL_SOURCE[name])
+    return tuple(items)
 
 
 def render_harness(spec: Spec, language: str) -> str:

@@ -1,0 +1,112 @@
+"""How close `synccore verify` runs to each simulator's free-running speed.
+
+For a 1920x1080 core (CTA-861 VIC 16 figures) over 2 frames, on each simulator:
+the measurement run through cocotb (clock in HDL, Python woken only on sync/de
+edges), then the same harness run free with no Python at all, for the same
+simulated time.  Prints cycles per second and the ratio cocotb/free.
+
+    python benchmarks/verify_speed.py [--frames N] [--sim icarus,ghdl,verilator]
+
+A benchmark, not a test: the figures go in the README.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import re
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import synccore
+from synccore.emit.harness import HARNESS_TOP, render_harness
+from synccore.simulate import VERILATOR_ARGS
+from synccore.tools import find
+from synccore.verify import run_engine
+
+SPEC = """\
+name: bench_1080p
+pixel_clock_hz: 148.5 MHz
+horizontal: {active: 1920, front_porch: 88, sync: 44, back_porch: 148, sync_polarity: positive}
+vertical:   {active: 1080, front_porch: 4,  sync: 5,  back_porch: 36,  sync_polarity: positive}
+"""
+CLOCK_NS = 10
+
+
+def sim_end_ns(log: Path) -> int:
+    """Simulated time at the end of a cocotb run, from its summary line."""
+    match = re.search(r"TESTS=\d+ PASS=\d+ FAIL=\d+ SKIP=\d+\s+([\d.]+)", log.read_text())
+    if not match:
+        raise RuntimeError(f"no summary in {log}")
+    return int(float(match.group(1)))
+
+
+def timed(cmd: list[str], cwd: Path, env: dict[str, str] | None = None) -> float:
+    full = dict(os.environ)
+    full.update(env or {})
+    start = time.perf_counter()
+    subprocess.run(cmd, cwd=cwd, env=full, check=True, stdout=subprocess.DEVNULL)
+    return time.perf_counter() - start
+
+
+def free_run(sim: str, spec: synccore.Spec, stop_ns: int, work: Path) -> float:
+    """Seconds the harness takes to run free (no cocotb) for ``stop_ns`` of simulated time."""
+    tool = find(sim)
+    assert tool is not None
+    work.mkdir(parents=True, exist_ok=True)
+    if sim == "ghdl":
+        core = work / f"{spec.name}.vhd"
+        core.write_text(synccore.render_vhdl(spec))
+        (work / "harness.vhd").write_text(render_harness(spec, "vhdl"))
+        subprocess.run(["ghdl", "-a", "--std=08", core.name, "harness.vhd"], cwd=work, check=True)
+        subprocess.run(["ghdl", "-e", "--std=08", HARNESS_TOP], cwd=work, check=True)
+        return timed(["ghdl", "-r", "--std=08", HARNESS_TOP, f"--stop-time={stop_ns}ns"], work)
+    core = work / f"{spec.name}.v"
+    core.write_text(synccore.render_verilog(spec))
+    (work / "harness.v").write_text(render_harness(spec, "verilog"))
+    define = f"SYNCCORE_STOP_NS={stop_ns}"
+    if sim == "icarus":
+        subprocess.run(["iverilog", "-g2005", f"-D{define}", "-s", HARNESS_TOP, "-o", "free.vvp",
+                        core.name, "harness.v"], cwd=work, check=True)  # fmt: skip
+        return timed(["vvp", "-n", "free.vvp"], work)
+    subprocess.run(["verilator", "--binary", *VERILATOR_ARGS, f"-D{define}", "--top-module",
+                    HARNESS_TOP, "-Mdir", "obj", core.name, "harness.v"],
+                   cwd=work, check=True, env={**os.environ, **tool.env},
+                   stdout=subprocess.DEVNULL)  # fmt: skip
+    return timed([f"obj/V{HARNESS_TOP}"], work, tool.env)
+
+
+def main() -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--frames", type=int, default=2)
+    parser.add_argument("--sim", default="icarus,ghdl,verilator")
+    args = parser.parse_args()
+    spec = synccore.loads(SPEC, "bench_1080p.yaml")
+    t = synccore.timing(spec)
+    print(f"{spec.name}: {t.frame_cycles} cycles per frame, {args.frames} frames")
+    print(f"{'simulator':<10} {'cocotb run':>11} {'M cycles/s':>11} {'free run':>9} "
+          f"{'M cycles/s':>11} {'ratio':>6}")  # fmt: skip
+    with tempfile.TemporaryDirectory() as tmp:
+        for sim in args.sim.split(","):
+            if find(sim) is None:
+                print(f"{sim:<10} not found")
+                continue
+            # First run fills the build cache; the second is timed (simulation only).
+            run_engine(spec, sim, frames=args.frames, work_dir=Path(tmp) / "warm")
+            run = run_engine(spec, sim, frames=args.frames, work_dir=Path(tmp) / "timed")
+            assert run.figures is not None and run.log is not None, run.error
+            wall = float(re.findall(r"TESTS=\d+ PASS=\d+ FAIL=\d+ SKIP=\d+\s+[\d.]+\s+([\d.]+)",
+                                    run.log.read_text())[0])  # fmt: skip
+            stop_ns = sim_end_ns(run.log)
+            cycles = stop_ns / CLOCK_NS
+            free = free_run(sim, spec, stop_ns, Path(tmp) / f"free-{sim}")
+            print(f"{sim:<10} {wall:>10.2f}s {cycles / wall / 1e6:>11.3f} {free:>8.2f}s "
+                  f"{cycles / free / 1e6:>11.3f} {free / wall:>6.2f}")  # fmt: skip
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
