@@ -17,6 +17,7 @@ from pathlib import Path
 from typing import Any
 
 from . import loader
+from .clocking.families import FAMILY_KEYS
 from .errors import Location, Problem, SpecError
 from .names import identifier_problem
 
@@ -84,6 +85,16 @@ PORT_FIELDS = (
           required=False, default=""),
 )
 
+BOARD_FIELDS = (
+    Field("clock_hz", "frequency",
+          'the board oscillator feeding the FPGA, e.g. "12 MHz"; used by clock planning',
+          required=False),
+    Field("family", "choice",
+          "FPGA family whose PLL makes the core clock; leave out to divide the board "
+          "clock with a clock enable instead",
+          required=False, choices=FAMILY_KEYS),
+)  # fmt: skip
+
 SPEC_FIELDS = (
     Field("name", "identifier", "module / entity name, legal in Verilog and VHDL"),
     Field("pixel_clock_hz", "frequency",
@@ -95,6 +106,8 @@ SPEC_FIELDS = (
     Field("core", "section", "options of the generated core", required=False,
           fields=CORE_FIELDS),
     Field("ports", "section", "port naming", required=False, fields=PORT_FIELDS),
+    Field("board", "section", "the board's clock, for clock planning", required=False,
+          fields=BOARD_FIELDS),
 )  # fmt: skip
 
 
@@ -129,6 +142,14 @@ class CoreOptions:
 
 
 @dataclass(frozen=True)
+class Board:
+    """The board's oscillator and FPGA family, when the spec gives them (for clock planning)."""
+
+    clock_hz: Fraction | None = None
+    family: str | None = None
+
+
+@dataclass(frozen=True)
 class Spec:
     """A validated timing description."""
 
@@ -139,6 +160,7 @@ class Spec:
     core: CoreOptions = CoreOptions()
     port_prefix: str = ""
     source: str = "<string>"
+    board: Board = Board()
 
 
 # ---------------------------------------------------------------- frequencies
@@ -346,6 +368,7 @@ def validate(doc: loader.Node, *, source: str = "<string>") -> Spec:
         core=core,
         port_prefix=prefix,
         source=source,
+        board=Board(**values["board"]) if values["board"] else Board(),
     )
 
 

@@ -190,3 +190,44 @@ def solve_enable(f_board: Fraction, target: Fraction) -> EnableSetting:
     options = [low, low + 1]
     divide = min(options, key=lambda n: (abs(f_board / n - target), n))
     return EnableSetting(f_board, target, divide)
+
+
+def reachable(fam: Family, f_in: Fraction, low: Fraction, high: Fraction) -> list[Setting]:
+    """Every legal setting whose output lies in ``[low, high]``, one per distinct frequency.
+
+    Used to look for a nearby clock when the target itself cannot be reached
+    closely enough.  The settings' ``target`` is ``low``; callers replace it.
+    """
+    if not fam.input_range.holds(f_in) or low > high or high <= 0:
+        return []
+    mults = fam.multiplier.ratios
+    outs = fam.output_divider.ratios
+    vco, out_r = fam.vco_range, fam.output_range
+    best: dict[Fraction, Setting] = {}
+
+    def keep(s: Setting) -> None:
+        seen = best.get(s.f_out)
+        if seen is None or (-s.f_vco, s.input_ratio) < (-seen.f_vco, seen.input_ratio):
+            best[s.f_out] = s
+
+    for d in fam.input_divider.ratios:
+        pfd = f_in / d
+        if not fam.pfd_range.holds(pfd):
+            continue
+        if fam.feedback == "vco":
+            lo = 0 if vco.low is None else bisect_left(mults, vco.low / pfd)
+            hi = len(mults) if vco.high is None else bisect_right(mults, vco.high / pfd)
+            for m in mults[lo:hi]:
+                f_vco = pfd * m
+                for o in outs[bisect_left(outs, f_vco / high) : bisect_right(outs, f_vco / low)]:
+                    if out_r.holds(f_vco / o):
+                        keep(Setting(fam, f_in, low, d, m, o))
+        else:
+            for m in mults[bisect_left(mults, low / pfd) : bisect_right(mults, high / pfd)]:
+                f_out = pfd * m
+                if not out_r.holds(f_out):
+                    continue
+                top = len(outs) if vco.high is None else bisect_right(outs, vco.high / f_out)
+                if top and vco.holds(f_out * outs[top - 1]):
+                    keep(Setting(fam, f_in, low, d, m, outs[top - 1]))
+    return list(best.values())
