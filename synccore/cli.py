@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import json
 import sys
-from pathlib import Path
 
 import click
 from rich.console import Console
@@ -12,6 +11,7 @@ from rich.table import Table
 
 from ._version import __version__
 from .build import core_artifacts, write_artifacts
+from .cli_clock import board_options, build_clock_artifacts, clock, print_plan
 from .errors import SpecError
 from .model import Timing
 from .report import figures, options, timing_table
@@ -73,15 +73,26 @@ def main() -> None:
               help="Folder for the generated files (created if missing).")
 @click.option("--force", is_flag=True,
               help="Overwrite files in the folder even if synccore did not generate them.")
-def build(spec: str, out_dir: str, force: bool) -> None:  # fmt: skip
+@click.option("--clock", "with_clock", is_flag=True,
+              help="Also write the clock wrapper OUT/<name>_clock.v/.vhd and its constraints.")
+@board_options
+def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: str | None,
+          family: str | None, no_pll: bool) -> None:  # fmt: skip
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = _load(spec)
     console = _console()
+    artifacts = core_artifacts(s)
+    plan = None
     try:
-        written = write_artifacts(core_artifacts(s), out_dir, force=force)
+        if with_clock:
+            plan, extra = build_clock_artifacts(s, board_clock, family, no_pll)
+            artifacts += extra
+        written = write_artifacts(artifacts, out_dir, force=force)
     except SpecError as err:
         _fail(err)
     print_summary(s, console)
+    if plan is not None:
+        print_plan(plan, console)
     for path in written:
         console.print(f"wrote {path}")
     console.print(HARDWARE_CAUTION, style="dim")
@@ -100,3 +111,4 @@ def schema() -> None:
     click.echo(json.dumps(json_schema(), indent=2))
 
 
+main.add_command(clock)

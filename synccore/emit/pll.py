@@ -111,8 +111,8 @@ def _str(text: str) -> Value:
     return Value("str", text=text)
 
 
-def _real(x: Fraction) -> Value:
-    return Value("real", x)
+def _real(x: int | Fraction) -> Value:
+    return Value("real", Fraction(x))
 
 
 def _level(bit: int, width: int | None = None) -> Value:
@@ -255,7 +255,7 @@ def build_clock_context(plan: ClockPlan) -> ClockContext:
            "rst": p + "rst", "ce": p + "ce"}  # fmt: skip
     # the primitive drives the internal clk_core, copied to the output port: VHDL-93
     # cannot read an output port, and ECP5 feeds CLKOP back into CLKFB.
-    header = _header(plan)
+    header = header_lines(plan)
     best = plan.best
     if best is None:
         raise ValueError("the plan has no setting to emit")
@@ -269,7 +269,8 @@ def build_clock_context(plan: ClockPlan) -> ClockContext:
         ports = (
             WrapperPort(sig["clk_in"], "in", f"board clock, {hz(plan.f_board)}"),
             WrapperPort(p + "clk", "out", f"core clock, {hz(best.f_out)}"),
-            WrapperPort(sig["locked"], "out", "1 once the PLL is locked; keep the core in reset before"),
+            WrapperPort(sig["locked"], "out",
+                        "1 once the PLL is locked; keep the core in reset before"),
         )
         return ClockContext(
             name=module_name(plan), header=header, ports=ports, is_pll=True,
@@ -296,11 +297,12 @@ def plan_lines(plan: ClockPlan) -> list[str]:
     return [f"{label.ljust(width)}  {value}" for label, value in plan_facts(plan)]
 
 
-def _header(plan: ClockPlan) -> tuple[str, ...]:
+def header_lines(plan: ClockPlan, what: str = "Clock") -> tuple[str, ...]:
+    """The generator mark, what the file is, and the plan in words."""
     source = PurePath(plan.spec.source).name
     return (
         f"{GENERATED_MARK} {__version__} from {source}; do not edit, regenerate instead.",
-        f"Clock for display timing core '{plan.spec.name}'.",
+        f"{what} for display timing core '{plan.spec.name}'.",
         "",
         *plan_lines(plan),
     )
@@ -348,6 +350,10 @@ def _vhdl_port_type(width: int | None) -> str:
     return "std_logic" if width is None else f"std_logic_vector({width - 1} downto 0)"
 
 
+def _separated(items: list[str], sep: str) -> list[str]:
+    return [item + (sep if i < len(items) - 1 else "") for i, item in enumerate(items)]
+
+
 def _aligned(rows: list[tuple[str, str]], mark: str) -> list[str]:
     if not rows:
         return []
@@ -365,8 +371,9 @@ def _verilog_view(ctx: ClockContext) -> dict[str, object]:
         ]  # fmt: skip
         pins = []
         for i, pin in enumerate(inst.pins):
-            conn = pin.signal if pin.signal is not None else _verilog_literal(pin.value)  # type: ignore[arg-type]
-            pins.append((f".{pin.name}({conn}){',' if i < len(inst.pins) - 1 else ''}", pin.comment))
+            conn = pin.signal if pin.value is None else _verilog_literal(pin.value)
+            sep = "," if i < len(inst.pins) - 1 else ""
+            pins.append((f".{pin.name}({conn}){sep}", pin.comment))
         insts.append({
             "primitive": inst.primitive, "label": inst.label,
             "params": _aligned(params, "//"), "pins": _aligned(pins, "//"),
@@ -401,8 +408,8 @@ def _vhdl_view(ctx: ClockContext) -> dict[str, object]:
             seen.add(inst.primitive)
             comps.append({
                 "primitive": inst.primitive,
-                "generics": [g + (";" if i < len(generics) - 1 else "") for i, g in enumerate(generics)],
-                "ports": [c + (";" if i < len(cports) - 1 else "") for i, c in enumerate(cports)],
+                "generics": _separated(generics, ";"),
+                "ports": _separated(cports, ";"),
             })  # fmt: skip
         params = [
             (f"{p.name} => {_vhdl_literal(p.value)}{',' if i < len(inst.params) - 1 else ''}",
@@ -411,8 +418,9 @@ def _vhdl_view(ctx: ClockContext) -> dict[str, object]:
         ]  # fmt: skip
         pins = []
         for i, pin in enumerate(inst.pins):
-            conn = pin.signal if pin.signal is not None else _vhdl_literal(pin.value)  # type: ignore[arg-type]
-            pins.append((f"{pin.name} => {conn}{',' if i < len(inst.pins) - 1 else ''}", pin.comment))
+            conn = pin.signal if pin.value is None else _vhdl_literal(pin.value)
+            sep = "," if i < len(inst.pins) - 1 else ""
+            pins.append((f"{pin.name} => {conn}{sep}", pin.comment))
         insts.append({
             "primitive": inst.primitive, "label": inst.label,
             "params": _aligned(params, "--"), "pins": _aligned(pins, "--"),
