@@ -45,7 +45,8 @@ def board_options(func: F) -> F:
                         help="Use a clock enable from the board clock instead of a PLL.")(func)
     func = click.option("--family", default=None, metavar="FAMILY",
                         help="FPGA family whose PLL makes the core clock: "
-                             + ", ".join(FAMILY_KEYS) + " (default: the spec's board.family).")(func)
+                             + ", ".join(FAMILY_KEYS)
+                             + " (default: the spec's board.family).")(func)
     func = click.option("--board-clock", default=None, metavar="FREQ",
                         help='Board oscillator, e.g. "12MHz" (default: the spec\'s '
                              "board.clock_hz).")(func)  # fmt: skip
@@ -91,8 +92,9 @@ def build_clock_artifacts(spec: Spec, board_clock: str | None, family: str | Non
         raise AssertionError from err  # pragma: no cover - _exit exits
     best = plan.best
     if best is None:
-        _exit([f"--clock: no PLL setting of {plan.family.key if plan.family else ''} reaches "
-               f"{hz(plan.target)} from {hz(plan.f_board)}; run 'synccore clock' for details"])  # fmt: skip
+        key = plan.family.key if plan.family else ""
+        _exit([f"--clock: no PLL setting of {key} reaches {hz(plan.target)} from "
+               f"{hz(plan.f_board)}; run 'synccore clock' for details"])  # fmt: skip
     if plan.family is None and plan.enable is not None and plan.enable.divide > 1:
         if not spec.core.clock_enable:
             raise SpecError([Problem(None, "core.clock_enable",
