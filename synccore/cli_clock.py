@@ -16,12 +16,12 @@ from typing import Any, TypeVar
 
 import click
 from rich.console import Console
-from rich.table import Table
+from rich.markup import escape
 
 from .build import Artifact, clock_artifacts
 from .clocking import FAMILIES, FAMILY_KEYS, Family
 from .clocking.plan import ClockPlan, make_plan
-from .clocking.report import adjustment_facts, plan_dict, plan_facts, route_text
+from .clocking.report import adjustment_facts, plan_dict, plan_facts, ppm_text, route_text
 from .errors import Problem, SpecError
 from .spec import Spec, load, parse_frequency
 from .units import fixed, hz
@@ -104,21 +104,20 @@ def build_clock_artifacts(spec: Spec, board_clock: str | None, family: str | Non
     return plan, clock_artifacts(plan)
 
 
+def _print_facts(rows: list[tuple[str, str]], console: Console) -> None:
+    # plain lines, never wrapped, so that scripts can grep them
+    width = max(len(label) for label, _ in rows)
+    for label, value in rows:
+        console.print(f"[bold]{escape(label.ljust(width))}[/bold]  {escape(value)}")
+
+
 def print_plan(plan: ClockPlan, console: Console) -> None:
-    """The plan, its runners-up and any suggested adjustment, as terminal tables."""
-    facts = Table(show_header=False, box=None, pad_edge=False)
-    facts.add_column(style="bold")
-    facts.add_column()
-    for label, value in plan_facts(plan):
-        facts.add_row(label, value)
-    console.print(facts)
+    """The plan, its runners-up and any suggested adjustment, as terminal text."""
+    _print_facts(plan_facts(plan), console)
     if len(plan.settings) > 1:
-        table = Table(title="runners-up", title_justify="left")
-        table.add_column("setting")
-        table.add_column("error", justify="right")
+        console.print("[bold]runners-up[/bold]")
         for s in plan.settings[1:]:
-            table.add_row(route_text(s), f"{fixed(s.ppm, 1)} ppm")
-        console.print(table)
+            console.print(f"  {escape(route_text(s))}  ({escape(ppm_text(s.ppm))})")
     if plan.within_tolerance:
         return
     pct = fixed(plan.tolerance * 100, 1)
@@ -131,12 +130,7 @@ def print_plan(plan: ClockPlan, console: Console) -> None:
                       "gives a reachable clock either.")  # fmt: skip
         return
     console.print("Adjusting the horizontal total keeps line rate and refresh on target:")
-    adj = Table(show_header=False, box=None, pad_edge=False)
-    adj.add_column(style="bold")
-    adj.add_column()
-    for label, value in adjustment_facts(plan):
-        adj.add_row(label, value)
-    console.print(adj)
+    _print_facts(adjustment_facts(plan), console)
 
 
 @click.command()
