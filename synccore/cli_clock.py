@@ -41,12 +41,17 @@ def _exit(lines: list[str]) -> None:
 
 def board_options(func: F) -> F:
     """The options that name the board clock and the route, shared by ``clock`` and ``build``."""
-    func = click.option("--no-pll", is_flag=True,
-                        help="Use a clock enable from the board clock instead of a PLL.")(func)
-    func = click.option("--family", default=None, metavar="FAMILY",
-                        help="FPGA family whose PLL makes the core clock: "
-                             + ", ".join(FAMILY_KEYS)
-                             + " (default: the spec's board.family).")(func)
+    func = click.option(
+        "--no-pll", is_flag=True, help="Use a clock enable from the board clock instead of a PLL."
+    )(func)
+    func = click.option(
+        "--family",
+        default=None,
+        metavar="FAMILY",
+        help="FPGA family whose PLL makes the core clock: "
+        + ", ".join(FAMILY_KEYS)
+        + " (default: the spec's board.family).",
+    )(func)
     func = click.option("--board-clock", default=None, metavar="FREQ",
                         help='Board oscillator, e.g. "12MHz" (default: the spec\'s '
                              "board.clock_hz).")(func)  # fmt: skip

@@ -80,7 +80,9 @@ def test_clock_reports_640x480_at_25_000_mhz_as_0_7_percent_slow(tmp_path: Path)
     assert data["within_tolerance"] is False
     assert data["refresh_hz"] == pytest.approx(25e6 / (800 * 525))
     code, out, _ = run("clock", spec, "--board-clock", "100MHz", "--no-pll")
-    assert re.search(r"^pixel clock reached\s+25\.000 MHz \(-6951\.3 ppm, -0\.695 %\)\s*$", out, re.M)
+    assert re.search(
+        r"^pixel clock reached\s+25\.000 MHz \(-6951\.3 ppm, -0\.695 %\)\s*$", out, re.M
+    )
     assert re.search(r"OUTSIDE\s*$", out, re.M)
     assert "No setting is within +/-0.5 % of the pixel clock." in out
 

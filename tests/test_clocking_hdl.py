@@ -226,3 +226,86 @@ def test_place_and_route_derives_our_clock(tmp_path: Path, key: str, board_mhz: 
     # nextpnr keeps periods in whole picoseconds, so its figure may differ by ~0.1 %
     assert constraint[0] == pytest.approx(ours, rel=1e-3)
     assert fmax[next(k for k in fmax if derived.group(2) in k)]["achieved"] > ours
+
+
+# ------------------------------------------------------- the clock-enable route
+
+VERILOG_BENCH = """\
+`timescale 1ns/1ps
+module bench;
+    reg clk_in = 1'b0;
+    reg rst = 1'b1;
+    wire ce;
+    integer cycle = 0;
+    vga_clock dut (.clk_in(clk_in), .rst(rst), .ce(ce));
+    always #5 clk_in = ~clk_in;
+    always @(posedge clk_in) begin
+        cycle <= cycle + 1;
+        if (cycle == 2) rst <= 1'b0;
+        if (ce) $display("ce at %0d", cycle);
+        if (cycle == 40) $finish;
+    end
+endmodule
+"""
+
+VHDL_BENCH = """\
+library ieee;
+use ieee.std_logic_1164.all;
+entity bench is
+end entity bench;
+architecture sim of bench is
+    signal clk_in : std_logic := '0';
+    signal rst    : std_logic := '1';
+    signal ce     : std_logic;
+    signal done   : boolean := false;
+begin
+    dut : entity work.vga_clock port map (clk_in => clk_in, rst => rst, ce => ce);
+    clk_in <= not clk_in after 5 ns when not done else clk_in;
+    process (clk_in)
+        variable cycle : natural := 0;
+    begin
+        if rising_edge(clk_in) then
+            if cycle = 2 then
+                rst <= '0';
+            end if;
+            if ce = '1' then
+                report "ce at " & integer'image(cycle);
+            end if;
+            if cycle = 40 then
+                done <= true;
+            end if;
+            cycle := cycle + 1;
+        end if;
+    end process;
+end architecture sim;
+"""
+
+
+def _ce_cycles(text: str) -> list[int]:
+    return [int(n) for n in re.findall(r"ce at (\d+)", text)]
+
+
+@pytest.mark.parametrize("board_mhz", [100, 50])
+def test_clock_enable_pulses_once_every_divide_cycles(tmp_path: Path, board_mhz: int) -> None:
+    """Icarus and GHDL agree: after reset, ce is high on exactly one cycle in ``divide``."""
+    iverilog, vvp, ghdl = need("iverilog"), need("vvp"), need("ghdl")
+    plan = plan_for("ce", board_mhz)
+    assert plan.enable is not None
+    divide = plan.enable.divide
+    assert divide == board_mhz // 25  # 25.175 MHz from 100 MHz: 4; from 50 MHz: 2
+    paths = write_wrapper(plan, tmp_path)
+    (tmp_path / "bench.v").write_text(VERILOG_BENCH)
+    (tmp_path / "bench.vhd").write_text(VHDL_BENCH)
+    subprocess.run([iverilog, "-o", "bench.vvp", "bench.v", paths[".v"].name], cwd=tmp_path,
+                   check=True)  # fmt: skip
+    verilog = subprocess.run([vvp, "-n", "bench.vvp"], cwd=tmp_path, capture_output=True,
+                             text=True, check=True).stdout  # fmt: skip
+    for step in (["-a", "--std=08", paths[".vhd"].name], ["-a", "--std=08", "bench.vhd"],
+                 ["-e", "--std=08", "bench"]):  # fmt: skip
+        subprocess.run([ghdl, *step], cwd=tmp_path, check=True, capture_output=True)
+    vhdl = subprocess.run([ghdl, "-r", "--std=08", "bench", "--stop-time=1us"], cwd=tmp_path,
+                          capture_output=True, text=True, check=False)  # fmt: skip
+    cycles = _ce_cycles(verilog)
+    assert cycles == _ce_cycles(vhdl.stdout + vhdl.stderr)
+    assert len(cycles) >= 5
+    assert {b - a for a, b in zip(cycles, cycles[1:], strict=False)} == {divide}

@@ -28,6 +28,9 @@ def route_text(r: Route) -> str:
             return f"board clock used as the core clock: {hz(r.f_out)}"
         return f"ce every {r.divide} cycles of {hz(r.f_board)} = {hz(r.f_out)}"
     params = " ".join(f"{k}={_number(v)}" for k, v in r.parameters().items())
+    if r.family.ratio_params is not None:
+        counters = " ".join(f"{k}={_number(v)}" for k, v in r.counters().items())
+        params += f" (counters {counters})"
     return f"{params}  PFD {hz(r.f_pfd)}  VCO {hz(r.f_vco)}  out {hz(r.f_out)}"
 
 

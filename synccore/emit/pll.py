@@ -91,6 +91,8 @@ class ClockContext:
     rst: str
     ce: str
     divide: int
+    divides: bool  # divide > 1: a counter makes ce; otherwise ce is always 1
+    count_last: int
     count_width: int
 
 
@@ -269,13 +271,16 @@ def build_clock_context(plan: ClockPlan) -> ClockContext:
         ports = (
             WrapperPort(sig["clk_in"], "in", f"board clock, {hz(plan.f_board)}"),
             WrapperPort(p + "clk", "out", f"core clock, {hz(best.f_out)}"),
-            WrapperPort(sig["locked"], "out",
-                        "1 once the PLL is locked; keep the core in reset before"),
+            WrapperPort(
+                sig["locked"], "out", "1 once the PLL is locked; keep the core in reset before"
+            ),
         )
         return ClockContext(
             name=module_name(plan), header=header, ports=ports, is_pll=True,
             instances=instances, wires=tuple(wires), bus_io=best.family.key == "cyclone",
             clk=p + "clk", clk_in=sig["clk_in"], rst=sig["rst"], ce=sig["ce"], divide=1,
+            divides=False,
+            count_last=0,
             count_width=1,
         )  # fmt: skip
     ports = (
@@ -287,7 +292,9 @@ def build_clock_context(plan: ClockPlan) -> ClockContext:
         name=module_name(plan), header=header, ports=ports, is_pll=False,
         instances=(), wires=(), bus_io=False, clk=sig["clk_in"],
         clk_in=sig["clk_in"], rst=sig["rst"], ce=sig["ce"],
-        divide=best.divide, count_width=bits_for(best.divide - 1),
+        divide=best.divide,
+        divides=best.divide > 1,
+        count_last=best.divide - 1, count_width=bits_for(best.divide - 1),
     )  # fmt: skip
 
 
