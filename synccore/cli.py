@@ -35,6 +35,11 @@ def _fail(err: SpecError) -> None:
     sys.exit(2)
 
 
+def _fail_line(message: str) -> None:
+    click.echo(message, err=True)
+    sys.exit(2)
+
+
 def _load(path: str) -> Spec:
     try:
         return load(path)
@@ -81,6 +86,8 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = _load(spec)
     console = _console()
+    if not with_clock and (board_clock or family or no_pll):
+        _fail_line("--board-clock, --family and --no-pll need --clock")
     artifacts = core_artifacts(s)
     plan = None
     try:

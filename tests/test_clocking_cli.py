@@ -228,3 +228,10 @@ def test_clock_enable_route_needs_the_ce_input(tmp_path: Path) -> None:
                        "--board-clock", "100MHz", "--no-pll")  # fmt: skip
     assert code == 0, err
     assert "module vga_clock" in (out / "vga_clock.v").read_text()
+
+
+def test_board_options_need_clock(tmp_path: Path) -> None:
+    out = tmp_path / "out"
+    code, _, err = run("build", write(tmp_path, DMT_640), "-o", str(out), "--family", "ice40")
+    assert code == 2 and not out.exists()
+    assert re.fullmatch(r"--board-clock, --family and --no-pll need --clock\n", err)
