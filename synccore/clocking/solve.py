@@ -31,8 +31,27 @@ def _plain(value: Fraction) -> int | Fraction:
     return int(value) if value.denominator == 1 else value
 
 
+class _Reached:
+    """The error of a reached frequency against the target; subclasses give both."""
+
+    target: Fraction
+
+    @property
+    def f_out(self) -> Fraction:
+        raise NotImplementedError
+
+    @property
+    def error(self) -> Fraction:
+        """Relative error of the reached frequency: (reached - target) / target."""
+        return (self.f_out - self.target) / self.target
+
+    @property
+    def ppm(self) -> Fraction:
+        return self.error * 10**6
+
+
 @dataclass(frozen=True)
-class Setting:
+class Setting(_Reached):
     """One legal setting of a family's synthesiser and the frequencies it gives."""
 
     family: Family
@@ -62,15 +81,6 @@ class Setting:
         if self.family.feedback == "vco":
             return self.f_pfd * self.multiplier
         return self.f_out * self.output_ratio
-
-    @property
-    def error(self) -> Fraction:
-        """Relative error of the reached frequency: (reached - target) / target."""
-        return (self.f_out - self.target) / self.target
-
-    @property
-    def ppm(self) -> Fraction:
-        return self.error * 10**6
 
     def counters(self) -> dict[str, int | Fraction]:
         """Every divider under the vendor's parameter name, with the vendor's encoding."""
@@ -111,7 +121,24 @@ def _rank(s: Setting) -> tuple[Fraction, Fraction, Fraction, Fraction, Fraction]
     return (abs(s.f_out - s.target), -s.f_vco, s.input_ratio, s.multiplier, s.output_ratio)
 
 
-def _candidates(fam: Family, f_in: Fraction, target: Fraction) -> list[Setting]:
+def _between(values: tuple[Fraction, ...], low: Fraction | None, high: Fraction | None
+             ) -> tuple[Fraction, ...]:  # fmt: skip
+    """The sorted ``values`` within ``[low, high]`` (None: unbounded)."""
+    lo = 0 if low is None else bisect_left(values, low)
+    hi = len(values) if high is None else bisect_right(values, high)
+    return values[lo:hi]
+
+
+def _settings(
+    fam: Family, f_in: Fraction, target: Fraction, window: tuple[Fraction, Fraction] | None
+) -> list[Setting]:
+    """Legal settings: those nearest ``target``, or (with a window) all with outputs inside it.
+
+    Without a window, feedback from the VCO keeps, for every input divider and
+    multiplier, the two output dividers around the ideal one; feedback from the
+    output tries every multiplier (the output does not depend on the output
+    divider, which is set for the highest legal VCO).
+    """
     found: list[Setting] = []
     mults = fam.multiplier.ratios
     outs = fam.output_divider.ratios
@@ -121,27 +148,40 @@ def _candidates(fam: Family, f_in: Fraction, target: Fraction) -> list[Setting]:
         if not fam.pfd_range.holds(pfd):
             continue
         if fam.feedback == "vco":
-            lo = 0 if vco.low is None else bisect_left(mults, vco.low / pfd)
-            hi = len(mults) if vco.high is None else bisect_right(mults, vco.high / pfd)
-            for m in mults[lo:hi]:
+            for m in _between(mults, _div(vco.low, pfd), _div(vco.high, pfd)):
                 f_vco = pfd * m
-                at = bisect_left(outs, f_vco / target)
-                for o in outs[max(0, at - 1) : at + 1]:
-                    if out_r.holds(f_vco / o):
-                        found.append(Setting(fam, f_in, target, d, m, o))
+                if window is None:
+                    at = bisect_left(outs, f_vco / target)
+                    choices = outs[max(0, at - 1) : at + 1]
+                else:
+                    choices = _between(outs, f_vco / window[1], f_vco / window[0])
+                found += [Setting(fam, f_in, target, d, m, o) for o in choices
+                          if out_r.holds(f_vco / o)]  # fmt: skip
         else:
-            lo = 0 if out_r.low is None else bisect_left(mults, out_r.low / pfd)
-            hi = len(mults) if out_r.high is None else bisect_right(mults, out_r.high / pfd)
-            for m in mults[lo:hi]:
+            low, high = out_r.low, out_r.high
+            if window is not None:
+                low = window[0] if low is None else max(low, window[0])
+                high = window[1] if high is None else min(high, window[1])
+            for m in _between(mults, _div(low, pfd), _div(high, pfd)):
                 f_out = pfd * m
-                # the highest output divider whose VCO stays legal
-                top = len(outs) if vco.high is None else bisect_right(outs, vco.high / f_out)
-                if top == 0:
-                    continue
-                o = outs[top - 1]
-                if vco.holds(f_out * o):
-                    found.append(Setting(fam, f_in, target, d, m, o))
+                top = len(_between(outs, None, _div(vco.high, f_out)))
+                if top and vco.holds(f_out * outs[top - 1]):
+                    found.append(Setting(fam, f_in, target, d, m, outs[top - 1]))
     return found
+
+
+def _div(value: Fraction | None, by: Fraction) -> Fraction | None:
+    return None if value is None else value / by
+
+
+def _distinct(settings: list[Setting]) -> list[Setting]:
+    """The best-ranked setting of every distinct output frequency, best first."""
+    best: dict[Fraction, Setting] = {}
+    for s in settings:
+        seen = best.get(s.f_out)
+        if seen is None or _rank(s) < _rank(seen):
+            best[s.f_out] = s
+    return sorted(best.values(), key=_rank)
 
 
 def solve(fam: Family, f_in: Fraction, target: Fraction, *, count: int = 4) -> list[Setting]:
@@ -152,16 +192,11 @@ def solve(fam: Family, f_in: Fraction, target: Fraction, *, count: int = 4) -> l
     """
     if target <= 0 or not fam.input_range.holds(f_in):
         return []
-    best: dict[Fraction, Setting] = {}
-    for s in _candidates(fam, f_in, target):
-        seen = best.get(s.f_out)
-        if seen is None or _rank(s) < _rank(seen):
-            best[s.f_out] = s
-    return sorted(best.values(), key=_rank)[:count]
+    return _distinct(_settings(fam, f_in, target, None))[:count]
 
 
 @dataclass(frozen=True)
-class EnableSetting:
+class EnableSetting(_Reached):
     """The no-PLL route: the core runs on the board clock and advances one cycle in ``divide``."""
 
     f_board: Fraction
@@ -172,14 +207,6 @@ class EnableSetting:
     def f_out(self) -> Fraction:
         """The rate at which the core advances: f_board / divide."""
         return self.f_board / self.divide
-
-    @property
-    def error(self) -> Fraction:
-        return (self.f_out - self.target) / self.target
-
-    @property
-    def ppm(self) -> Fraction:
-        return self.error * 10**6
 
 
 def solve_enable(f_board: Fraction, target: Fraction) -> EnableSetting:
@@ -200,34 +227,4 @@ def reachable(fam: Family, f_in: Fraction, low: Fraction, high: Fraction) -> lis
     """
     if not fam.input_range.holds(f_in) or low > high or high <= 0:
         return []
-    mults = fam.multiplier.ratios
-    outs = fam.output_divider.ratios
-    vco, out_r = fam.vco_range, fam.output_range
-    best: dict[Fraction, Setting] = {}
-
-    def keep(s: Setting) -> None:
-        seen = best.get(s.f_out)
-        if seen is None or (-s.f_vco, s.input_ratio) < (-seen.f_vco, seen.input_ratio):
-            best[s.f_out] = s
-
-    for d in fam.input_divider.ratios:
-        pfd = f_in / d
-        if not fam.pfd_range.holds(pfd):
-            continue
-        if fam.feedback == "vco":
-            lo = 0 if vco.low is None else bisect_left(mults, vco.low / pfd)
-            hi = len(mults) if vco.high is None else bisect_right(mults, vco.high / pfd)
-            for m in mults[lo:hi]:
-                f_vco = pfd * m
-                for o in outs[bisect_left(outs, f_vco / high) : bisect_right(outs, f_vco / low)]:
-                    if out_r.holds(f_vco / o):
-                        keep(Setting(fam, f_in, low, d, m, o))
-        else:
-            for m in mults[bisect_left(mults, low / pfd) : bisect_right(mults, high / pfd)]:
-                f_out = pfd * m
-                if not out_r.holds(f_out):
-                    continue
-                top = len(outs) if vco.high is None else bisect_right(outs, vco.high / f_out)
-                if top and vco.holds(f_out * outs[top - 1]):
-                    keep(Setting(fam, f_in, low, d, m, outs[top - 1]))
-    return list(best.values())
+    return _distinct(_settings(fam, f_in, low, (low, high)))

@@ -16,6 +16,7 @@ values marked "from memory" in comments are to be checked against them.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from fractions import Fraction
 from pathlib import PurePath
@@ -368,23 +369,30 @@ def _aligned(rows: list[tuple[str, str]], mark: str) -> list[str]:
     return [f"{text.ljust(w)}  {mark} {c}".rstrip() if c else text for text, c in rows]
 
 
+def _instance_view(
+    inst: Instance, literal: Callable[[Value], str], connect: str, mark: str
+) -> dict[str, object]:
+    """Aligned parameter and pin lines of one instance; ``connect`` is e.g. ``.{}({})``."""
+    params = [(connect.format(p.name, literal(p.value)), p.comment) for p in inst.params]
+    pins = [
+        (connect.format(pin.name, pin.signal if pin.value is None else literal(pin.value)),
+         pin.comment)
+        for pin in inst.pins
+    ]  # fmt: skip
+    return {
+        "primitive": inst.primitive,
+        "label": inst.label,
+        "params": _aligned(_commas(params), mark),
+        "pins": _aligned(_commas(pins), mark),
+    }
+
+
+def _commas(rows: list[tuple[str, str]]) -> list[tuple[str, str]]:
+    return [(t + ("," if i < len(rows) - 1 else ""), c) for i, (t, c) in enumerate(rows)]
+
+
 def _verilog_view(ctx: ClockContext) -> dict[str, object]:
-    insts = []
-    for inst in ctx.instances:
-        params = [
-            (f".{p.name}({_verilog_literal(p.value)}){',' if i < len(inst.params) - 1 else ''}",
-             p.comment)
-            for i, p in enumerate(inst.params)
-        ]  # fmt: skip
-        pins = []
-        for i, pin in enumerate(inst.pins):
-            conn = pin.signal if pin.value is None else _verilog_literal(pin.value)
-            sep = "," if i < len(inst.pins) - 1 else ""
-            pins.append((f".{pin.name}({conn}){sep}", pin.comment))
-        insts.append({
-            "primitive": inst.primitive, "label": inst.label,
-            "params": _aligned(params, "//"), "pins": _aligned(pins, "//"),
-        })  # fmt: skip
+    insts = [_instance_view(i, _verilog_literal, ".{}({})", "//") for i in ctx.instances]
     ports = [
         (f"{'input  wire' if p.direction == 'in' else 'output wire'} {p.name}"
          f"{',' if i < len(ctx.ports) - 1 else ''}", p.comment)
@@ -406,7 +414,7 @@ def _verilog_view(ctx: ClockContext) -> dict[str, object]:
 
 def _vhdl_view(ctx: ClockContext) -> dict[str, object]:
     comps = []
-    insts = []
+    insts: list[dict[str, object]] = []
     seen: set[str] = set()
     for inst in ctx.instances:
         generics = [f"{p.name} : {_vhdl_generic_type(p.value)}" for p in inst.params]
@@ -418,20 +426,7 @@ def _vhdl_view(ctx: ClockContext) -> dict[str, object]:
                 "generics": _separated(generics, ";"),
                 "ports": _separated(cports, ";"),
             })  # fmt: skip
-        params = [
-            (f"{p.name} => {_vhdl_literal(p.value)}{',' if i < len(inst.params) - 1 else ''}",
-             p.comment)
-            for i, p in enumerate(inst.params)
-        ]  # fmt: skip
-        pins = []
-        for i, pin in enumerate(inst.pins):
-            conn = pin.signal if pin.value is None else _vhdl_literal(pin.value)
-            sep = "," if i < len(inst.pins) - 1 else ""
-            pins.append((f"{pin.name} => {conn}{sep}", pin.comment))
-        insts.append({
-            "primitive": inst.primitive, "label": inst.label,
-            "params": _aligned(params, "--"), "pins": _aligned(pins, "--"),
-        })  # fmt: skip
+        insts.append(_instance_view(inst, _vhdl_literal, "{} => {}", "--"))
     pw = max(len(p.name) for p in ctx.ports)
     ports = [
         (f"{p.name.ljust(pw)} : {'in ' if p.direction == 'in' else 'out'} std_logic"
