@@ -235,3 +235,25 @@ def test_board_options_need_clock(tmp_path: Path) -> None:
     code, _, err = run("build", write(tmp_path, DMT_640), "-o", str(out), "--family", "ice40")
     assert code == 2 and not out.exists()
     assert re.fullmatch(r"--board-clock, --family and --no-pll need --clock\n", err)
+
+
+def test_adjustment_through_a_pll_uses_a_legal_setting(tmp_path: Path) -> None:
+    """iCE40 from 25 MHz misses 25.175 MHz by 0.7 %; the suggested line length fixes refresh."""
+    spec = write(tmp_path, DMT_640)
+    code, out, _ = run("clock", spec, "--board-clock", "25MHz", "--family", "ice40", "--json")
+    data = json.loads(out)
+    assert code == 0 and data["within_tolerance"] is False
+    adj = data["adjustment"]
+    p = adj["setting"]["parameters"]
+    # TN1251 (from memory): f_out = f_in * (DIVF + 1) / ((DIVR + 1) * 2**DIVQ), VCO 533-1066 MHz
+    f_in = Fraction(25 * MHZ)
+    vco = f_in * (p["DIVF"] + 1) / (p["DIVR"] + 1)
+    assert 533 * MHZ <= vco <= 1066 * MHZ
+    reached = vco / 2 ** p["DIVQ"]
+    assert adj["setting"]["reached_hz"] == reached
+    refresh = reached / (adj["h_total"] * 525)
+    assert adj["refresh_hz"] == pytest.approx(float(refresh))
+    assert abs(refresh - DMT_640_REFRESH_HZ) / DMT_640_REFRESH_HZ < Fraction(5, 1000)
+    h = (adj["front_porch"], adj["back_porch"])
+    assert adj["h_total"] == 640 + 96 + sum(h)
+    assert abs(h[0] - 16) <= 4 and abs(h[1] - 48) <= 12  # each porch within ±25 %
