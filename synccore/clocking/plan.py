@@ -11,7 +11,9 @@ The reached clock is judged against :data:`~synccore.clocking.solve.MONITOR_TOLE
 When it misses, the plan looks for a horizontal total close to the spec's
 (active pixels and sync width kept, each porch changed by at most
 :data:`PORCH_SHARE` of its width) whose clock the route can reach, so that
-line rate and refresh stay on target: the trade's usual trick.
+line rate and refresh stay on target: the trade's usual trick.  The smallest
+refresh error wins, except that errors below :data:`GOOD_ENOUGH` count as
+equal and then the smallest change of the total wins.
 """
 
 from __future__ import annotations
@@ -34,6 +36,11 @@ from .solve import (
 
 PORCH_SHARE = Fraction(1, 4)
 """A suggested adjustment changes each horizontal porch by at most this share of its width."""
+
+GOOD_ENOUGH = Fraction(100, 10**6)
+"""Refresh errors below 100 ppm count as equal, and the smallest porch change wins among them:
+closer is pointless, as board oscillators themselves are typically specified to ±50-100 ppm
+(crystal oscillator data sheets, from memory)."""
 
 RUNNERS_UP = 3
 
@@ -154,16 +161,18 @@ def _adjust(spec: Spec, f_board: Fraction, family: Family | None) -> Adjustment 
     else:
         span = (high - low) / 2  # tolerate a clock between two totals
         routes = list(reachable(family, f_board, low - span, high + span))
-    best: tuple[tuple[Fraction, int, Fraction], Adjustment] | None = None
+    best: tuple[tuple[Fraction, int, Fraction, Fraction], Adjustment] | None = None
     for r in routes:
-        exact = r.f_out * n / (refresh * v_total)  # total that would be exactly on target
-        for delta in deltas:
-            total = h.total + delta
-            if abs(total - exact) > n:
+        exact = r.f_out * n / (refresh * v_total)  # the total that would be exactly on target
+        below = int(exact // n) * n
+        for total in (below, below + n):
+            delta = total - h.total
+            if delta not in splits:
                 continue
             reached = r.f_out * n / (total * v_total)
             err = (reached - refresh) / refresh
-            key = (abs(err), abs(delta), -(r.f_vco if isinstance(r, Setting) else Fraction(0)))
+            vco = r.f_vco if isinstance(r, Setting) else Fraction(0)
+            key = (max(abs(err), GOOD_ENOUGH), abs(delta), abs(err), -vco)
             if best is None or key < best[0]:
                 df, db = splits[delta]
                 new_px = refresh * total * v_total
