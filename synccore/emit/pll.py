@@ -417,8 +417,13 @@ def _vhdl_view(ctx: ClockContext) -> dict[str, object]:
     insts: list[dict[str, object]] = []
     seen: set[str] = set()
     for inst in ctx.instances:
-        generics = [f"{p.name} : {_vhdl_generic_type(p.value)}" for p in inst.params]
-        cports = [f"{pin.name} : {pin.direction} {_vhdl_port_type(pin.width)}" for pin in inst.pins]
+        gw = max((len(p.name) for p in inst.params), default=0)
+        generics = [f"{p.name.ljust(gw)} : {_vhdl_generic_type(p.value)}" for p in inst.params]
+        pw = max(len(pin.name) for pin in inst.pins)
+        cports = [
+            f"{pin.name.ljust(pw)} : {pin.direction.ljust(3)} {_vhdl_port_type(pin.width)}"
+            for pin in inst.pins
+        ]
         if inst.primitive not in seen:
             seen.add(inst.primitive)
             comps.append({
