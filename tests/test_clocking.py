@@ -33,7 +33,8 @@ DOCUMENTED = {
     # Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide (from memory)
     "ice40": dict(fin=("10", "133"), pfd=("10", "133"), vco=("533", "1066"), out=("16", "275"),
                   D=range(1, 17), M=range(1, 129), O=[2, 4, 8, 16, 32, 64], feedback="vco"),
-    # Lattice TN1263 / DS1044, ECP5 EHXPLLL (from memory)
+    # Lattice FPGA-TN-02200 (TN1263) / DS1044, ECP5 EHXPLLL: input, VCO, output and
+    # divider ranges as quoted from the data sheet's PLL timing table; PFD from memory
     "ecp5": dict(fin=("8", "400"), pfd=("3.125", "400"), vco=("400", "800"), out=("3.125", "400"),
                  D=range(1, 129), M=range(1, 129), O=range(1, 129), feedback="output"),
     # Xilinx UG472 attribute ranges, DS181 Artix-7 -1 (from memory)
@@ -47,8 +48,8 @@ DOCUMENTED = {
     "gowin": dict(fin=("3", "400"), pfd=("3", "400"), vco=("400", "1200"), out=("3.125", "600"),
                   D=range(1, 65), M=range(1, 65),
                   O=[2, 4, 8, 16, 32, 48, 64, 80, 96, 112, 128], feedback="output"),
-    # Intel Cyclone IV handbook vol. 1 ch. 5 (counters 1-512) and vol. 3 table 1-25;
-    # C8 output limit 402.5 MHz (from memory)
+    # Intel Cyclone IV handbook vol. 1 ch. 5 (counters 1-512) and vol. 3 table 1-25
+    # (PFD 5-325, VCO 600-1300 MHz, as quoted); C8 input/output limit 402.5 MHz from memory
     "cyclone": dict(fin=("5", "402.5"), pfd=("5", "325"), vco=("600", "1300"),
                     out=(None, "402.5"), D=range(1, 513), M=range(1, 513), O=range(1, 513),
                     feedback="vco"),

@@ -147,16 +147,18 @@ def ice40_filter_range(f_pfd: Fraction) -> int:
 
 
 # ---------------------------------------------------------------------- ECP5
-# Lattice TN1263 "ECP5 and ECP5-5G sysCLOCK PLL/DLL Design and Usage Guide" and
-# the ECP5 family data sheet DS1044, PLL timing (from memory): f_IN 8-400 MHz,
-# f_PFD 3.125-400 MHz, f_VCO 400-800 MHz, f_OUT 3.125-400 MHz; CLKI_DIV,
-# CLKFB_DIV and CLKOP_DIV 1-128.  With FEEDBK_PATH "CLKOP" the output is
+# Lattice FPGA-TN-02200 (formerly TN1263) "ECP5 and ECP5-5G sysCLOCK PLL/DLL
+# Design and Usage Guide" and the ECP5 family data sheet DS1044, sysCLOCK PLL
+# timing: f_IN 8-400 MHz, f_OUT 3.125-400 MHz, f_VCO 400-800 MHz and CLKI_DIV,
+# CLKFB_DIV, CLKOP_DIV 1-128 (checked against a published quotation of the data
+# sheet's table, not the data sheet itself); f_PFD 3.125-400 MHz from memory.  With FEEDBK_PATH "CLKOP" the output is
 # f_IN * CLKFB_DIV / CLKI_DIV and the VCO runs at f_OUT * CLKOP_DIV.
 ECP5 = Family(
     key="ecp5",
     title="Lattice ECP5 (EHXPLLL, feedback from CLKOP)",
     primitive="EHXPLLL",
-    document="Lattice TN1263 ECP5 sysCLOCK PLL/DLL guide; DS1044 ECP5 data sheet (from memory)",
+    document="Lattice FPGA-TN-02200 (TN1263) ECP5 sysCLOCK PLL/DLL guide; DS1044 ECP5 data "
+    "sheet (PFD limit from memory)",
     input_range=Range(_mhz("8"), _mhz("400")),
     pfd_range=Range(_mhz("3.125"), _mhz("400")),
     vco_range=Range(_mhz("400"), _mhz("800")),
@@ -235,10 +237,11 @@ GOWIN = Family(
 
 # -------------------------------------------------------------------- Intel
 # Intel "Cyclone IV Device Handbook" vol. 1 ch. 5 (clock networks and PLLs):
-# f_out = f_in * M / (N * C), counters N, M and C 1-512; vol. 3 (device data
-# sheet) table 1-25 PLL specifications: f_IN 5-472.5 MHz (C6; slower grades
-# less), f_INPFD 5-325 MHz, f_VCO 600-1300 MHz; f_OUT to a global clock 472.5
-# MHz (C6), 402.5 MHz for C8 (from memory).  Cyclone 10 LP data sheet states
+# f_out = f_in * M / (N * K * C), counters N, M and C 1-512, K 1 or 2; vol. 3
+# (device data sheet) table 1-25 PLL specifications: f_IN 5 MHz up to 472.5 MHz
+# depending on the speed grade, f_INPFD 5-325 MHz, f_VCO 600-1300 MHz (checked
+# against a published quotation of the handbook's table).  The 402.5 MHz input
+# and output limits used here for grade C8 are from memory.  Cyclone 10 LP data sheet states
 # the same PLL figures (from memory).  The post-scale counter K (1 or 2) is
 # left at 1.  ALTPLL takes the ratio (clk0_multiply_by / clk0_divide_by);
 # Quartus picks the counters, which may differ from ours but give the same ratio.
@@ -247,7 +250,7 @@ CYCLONE = Family(
     title="Intel Cyclone IV / Cyclone 10 LP (ALTPLL), speed grade C8",
     primitive="altpll",
     document="Intel Cyclone IV Device Handbook vol. 1 ch. 5 and vol. 3 table 1-25; "
-    "Cyclone 10 LP data sheet (from memory for the C8 limits)",
+    "Cyclone 10 LP data sheet (C8 limits from memory)",
     input_range=Range(_mhz("5"), _mhz("402.5")),
     pfd_range=Range(_mhz("5"), _mhz("325")),
     vco_range=Range(_mhz("600"), _mhz("1300")),
