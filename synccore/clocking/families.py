@@ -151,8 +151,9 @@ def ice40_filter_range(f_pfd: Fraction) -> int:
 # Design and Usage Guide" and the ECP5 family data sheet DS1044, sysCLOCK PLL
 # timing: f_IN 8-400 MHz, f_OUT 3.125-400 MHz, f_VCO 400-800 MHz and CLKI_DIV,
 # CLKFB_DIV, CLKOP_DIV 1-128 (checked against a published quotation of the data
-# sheet's table, not the data sheet itself); f_PFD 3.125-400 MHz from memory.  With FEEDBK_PATH "CLKOP" the output is
-# f_IN * CLKFB_DIV / CLKI_DIV and the VCO runs at f_OUT * CLKOP_DIV.
+# sheet's table, not the data sheet itself); f_PFD 3.125-400 MHz from memory.
+# With FEEDBK_PATH "CLKOP" the output is f_IN * CLKFB_DIV / CLKI_DIV and the VCO
+# runs at f_OUT * CLKOP_DIV.
 ECP5 = Family(
     key="ecp5",
     title="Lattice ECP5 (EHXPLLL, feedback from CLKOP)",
