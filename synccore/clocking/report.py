@@ -56,6 +56,8 @@ def plan_facts(plan: ClockPlan) -> list[tuple[str, str]]:
         rows.append(("setting", "none: " + _no_setting_reason(plan)))
         return rows
     rows.append(("setting", route_text(best)))
+    if isinstance(best, EnableSetting) and best.f_board < plan.target * (1 - plan.tolerance):
+        rows.append(("note", "the board clock is slower than the core clock: this needs a PLL"))
     px = plan.reached_pixel_hz
     assert px is not None and plan.line_rate_hz is not None and plan.refresh_hz is not None
     rows += [
