@@ -161,6 +161,8 @@ EXHAUSTIVE = [("ice40", b, p) for b in BOARD_CLOCKS_MHZ for p in PIXEL_CLOCKS_MH
 EXHAUSTIVE += [("gowin", b, p) for b in BOARD_CLOCKS_MHZ for p in PIXEL_CLOCKS_MHZ]
 EXHAUSTIVE += [("ecp5", b, p) for b in ("12", "25", "27") for p in PIXEL_CLOCKS_MHZ]
 EXHAUSTIVE += [("xc7-pll", b, p) for b in ("25", "27", "50") for p in ("25.175", "74.25", "148.5")]
+EXHAUSTIVE += [("cyclone", "12", p) for p in ("25.175", "74.25", "148.5")]
+EXHAUSTIVE += [("xc7-mmcm", "12", p) for p in ("25.175", "65", "148.5")]  # PFD >= 10 MHz: D = 1
 
 
 @pytest.mark.parametrize(("key", "board", "pixel"), EXHAUSTIVE)
