@@ -120,7 +120,13 @@ def make_plan(spec: Spec, *, f_board: Fraction, family: Family | None) -> ClockP
         enable = None
     plan = ClockPlan(spec, f_board, family, settings, enable, None)
     if not plan.within_tolerance:
-        plan = dataclasses.replace(plan, adjustment=_adjust(spec, f_board, family))
+        adjustment = _adjust(spec, f_board, family)
+        best = plan.best
+        # offered only when it brings refresh closer than the plain route does
+        if adjustment is not None and (
+            best is None or abs(adjustment.refresh_error) < abs(best.error)
+        ):
+            plan = dataclasses.replace(plan, adjustment=adjustment)
     return plan
 
 
@@ -138,9 +144,9 @@ def _adjust(spec: Spec, f_board: Fraction, family: Family | None) -> Adjustment 
     splits: dict[int, tuple[int, int]] = {}
     for df in _porch_moves(h.front_porch, n):
         for db in _porch_moves(h.back_porch, n):
-            delta = df + db
-            if delta not in splits or abs(df - db) < abs(sum(splits[delta]) - 2 * splits[delta][1]):
-                splits[delta] = (df, db)
+            old = splits.get(df + db)
+            if old is None or abs(df - db) < abs(old[0] - old[1]):
+                splits[df + db] = (df, db)
     if not splits:
         return None
     deltas = sorted(splits)
