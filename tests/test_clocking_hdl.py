@@ -309,3 +309,47 @@ def test_clock_enable_pulses_once_every_divide_cycles(tmp_path: Path, board_mhz:
     assert cycles == _ce_cycles(vhdl.stdout + vhdl.stderr)
     assert len(cycles) >= 5
     assert {b - a for a, b in zip(cycles, cycles[1:], strict=False)} == {divide}
+
+
+LINE_BENCH = """\
+`timescale 1ns/1ps
+module line_bench;
+    reg clk_in = 1'b0;
+    reg rst = 1'b1;
+    wire ce, hsync, vsync, de, hblank, vblank, line_start, frame_start;
+    wire [9:0] x;
+    wire [8:0] y;
+    integer cycle = 0;
+    reg hsync_q = 1'b1;
+    vga_clock u_clock (.clk_in(clk_in), .rst(rst), .ce(ce));
+    vga u_core (.clk(clk_in), .rst(rst), .ce(ce), .hsync(hsync), .vsync(vsync), .de(de),
+        .hblank(hblank), .vblank(vblank), .x(x), .y(y), .line_start(line_start),
+        .frame_start(frame_start));
+    always #5 clk_in = ~clk_in;
+    always @(posedge clk_in) begin
+        cycle <= cycle + 1;
+        hsync_q <= hsync;
+        if (cycle == 3) rst <= 1'b0;
+        if (hsync_q && !hsync) $display("hsync at %0d", cycle);
+        if (cycle == 12000) $finish;
+    end
+endmodule
+"""
+
+
+def test_clock_enable_route_paces_the_core(tmp_path: Path) -> None:
+    """Core plus ce wrapper from 100 MHz: one line every 800 x 4 board cycles (VESA DMT 800)."""
+    iverilog, vvp = need("iverilog"), need("vvp")
+    plan = plan_for("ce", 100)
+    assert plan.enable is not None and plan.enable.divide == 4
+    write_wrapper(plan, tmp_path)
+    for a in core_artifacts(plan.spec):
+        (tmp_path / a.name).write_text(a.text)
+    (tmp_path / "line_bench.v").write_text(LINE_BENCH)
+    subprocess.run([iverilog, "-o", "line.vvp", "line_bench.v", "vga.v", "vga_clock.v"],
+                   cwd=tmp_path, check=True)  # fmt: skip
+    out = subprocess.run([vvp, "-n", "line.vvp"], cwd=tmp_path, capture_output=True, text=True,
+                         check=True).stdout  # fmt: skip
+    edges = [int(n) for n in re.findall(r"hsync at (\d+)", out)]
+    assert len(edges) >= 3
+    assert {b - a for a, b in zip(edges, edges[1:], strict=False)} == {800 * 4}
