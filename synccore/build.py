@@ -15,8 +15,11 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
 
+from .clocking.plan import ClockPlan
+from .constraints import constraint_suffix, render_constraints
 from .emit import render_verilog, render_vhdl
 from .emit._context import GENERATED_MARK
+from .emit.pll import module_name, render_clock_verilog, render_clock_vhdl
 from .errors import Problem, SpecError
 from .spec import Spec
 
@@ -39,6 +42,16 @@ class Artifact:
 def core_artifacts(spec: Spec) -> list[Artifact]:
     """The core in every target language."""
     return [Artifact(spec.name + suffix, render(spec)) for suffix, render in CORE_FILES]
+
+
+def clock_artifacts(plan: ClockPlan) -> list[Artifact]:
+    """The clock wrapper in every target language, and its timing constraints."""
+    name = module_name(plan)
+    return [
+        Artifact(name + ".v", render_clock_verilog(plan)),
+        Artifact(name + ".vhd", render_clock_vhdl(plan)),
+        Artifact(name + constraint_suffix(plan), render_constraints(plan)),
+    ]
 
 
 def _generated_by_us(path: Path) -> bool:

@@ -12,6 +12,7 @@ from rich.table import Table
 
 from ._version import __version__
 from .build import core_artifacts, write_artifacts
+from .cli_clock import board_options, build_clock_artifacts, clock, print_plan
 from .errors import SpecError
 from .model import Timing
 from .modeline import format_line
@@ -33,6 +34,11 @@ def _console() -> Console:
 def _fail(err: SpecError) -> None:
     for problem in err.problems:
         click.echo(str(problem), err=True)
+    sys.exit(2)
+
+
+def _fail_line(message: str) -> None:
+    click.echo(message, err=True)
     sys.exit(2)
 
 
@@ -76,17 +82,30 @@ def main() -> None:
               help="Folder for the generated files (created if missing).")
 @click.option("--force", is_flag=True,
               help="Overwrite files in the folder even if synccore did not generate them.")
+@click.option("--clock", "with_clock", is_flag=True,
+              help="Also write the clock wrapper OUT/<name>_clock.v/.vhd and its constraints.")
+@board_options
 @click.option("--verify", "then_verify", is_flag=True,
               help="Then run the core in every simulator found and measure it (see `verify`).")
-def build(spec: str, out_dir: str, force: bool, then_verify: bool) -> None:  # fmt: skip
+def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: str | None,
+          family: str | None, no_pll: bool, then_verify: bool) -> None:  # fmt: skip
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = _load(spec)
     console = _console()
+    if not with_clock and (board_clock or family or no_pll):
+        _fail_line("--board-clock, --family and --no-pll need --clock")
+    artifacts = core_artifacts(s)
+    plan = None
     try:
-        written = write_artifacts(core_artifacts(s), out_dir, force=force)
+        if with_clock:
+            plan, extra = build_clock_artifacts(s, board_clock, family, no_pll)
+            artifacts += extra
+        written = write_artifacts(artifacts, out_dir, force=force)
     except SpecError as err:
         _fail(err)
     print_summary(s, console)
+    if plan is not None:
+        print_plan(plan, console)
     for path in written:
         console.print(f"wrote {path}")
     console.print(HARDWARE_CAUTION, style="dim")
@@ -207,3 +226,6 @@ def verify_command(spec: str, sims: str | None, frames: int, waves: bool,
     s = _load(spec)
     _run_verify(s, engines=engines, frames=frames, waves=waves, work_dir=work_dir,
                 console=_console())
+
+
+main.add_command(clock)

@@ -17,6 +17,7 @@ from pathlib import Path
 from typing import Any
 
 from . import loader
+from .clocking.families import FAMILY_KEYS
 from .errors import Location, Problem, SpecError
 from .names import identifier_problem
 
@@ -107,6 +108,16 @@ PORT_FIELDS = (
           required=False, default=""),
 )
 
+BOARD_FIELDS = (
+    Field("clock_hz", "frequency",
+          'the board oscillator feeding the FPGA, e.g. "12 MHz"; used by clock planning',
+          required=False),
+    Field("family", "choice",
+          "FPGA family whose PLL makes the core clock; leave out to divide the board "
+          "clock with a clock enable instead",
+          required=False, choices=FAMILY_KEYS),
+)  # fmt: skip
+
 SPEC_FIELDS = (
     Field("name", "identifier", "module / entity name, legal in Verilog and VHDL"),
     Field("standard", "text", 'a library timing instead of the explicit keys: "1280x720@60", '
@@ -125,6 +136,8 @@ SPEC_FIELDS = (
     Field("core", "section", "options of the generated core", required=False,
           fields=CORE_FIELDS),
     Field("ports", "section", "port naming", required=False, fields=PORT_FIELDS),
+    Field("board", "section", "the board's clock, for clock planning", required=False,
+          fields=BOARD_FIELDS),
 )  # fmt: skip
 
 
@@ -159,6 +172,14 @@ class CoreOptions:
 
 
 @dataclass(frozen=True)
+class Board:
+    """The board's oscillator and FPGA family, when the spec gives them (for clock planning)."""
+
+    clock_hz: Fraction | None = None
+    family: str | None = None
+
+
+@dataclass(frozen=True)
 class Spec:
     """A validated timing description."""
 
@@ -173,6 +194,7 @@ class Spec:
     """Where the timing came from when not given explicitly: a library entry, a formula, a fit."""
     notes: tuple[str, ...] = ()
     """What the resolution step adjusted or wants the user to know, one sentence each."""
+    board: Board = Board()
 
 
 # ---------------------------------------------------------------- frequencies
@@ -403,6 +425,7 @@ def validate(doc: loader.Node, *, source: str = "<string>") -> Spec:
         source=source,
         origin=resolved.origin,
         notes=resolved.notes,
+        board=Board(**values["board"]) if values["board"] else Board(),
     )
 
 

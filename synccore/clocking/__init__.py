@@ -1,0 +1,22 @@
+"""Clock planning: from the board's oscillator to the core clock.
+
+:mod:`.families` holds one data entry per FPGA family (its vendor's divider
+ranges and frequency limits); :mod:`.solve` finds the closest legal
+settings; :mod:`synccore.clocking.plan` (imported on its own, since it
+depends on the timing model) turns a spec and a board into a plan.
+"""
+
+from .families import FAMILIES, FAMILY_KEYS, Family, family
+from .solve import MONITOR_TOLERANCE, EnableSetting, Setting, solve, solve_enable
+
+__all__ = [
+    "FAMILIES",
+    "FAMILY_KEYS",
+    "MONITOR_TOLERANCE",
+    "EnableSetting",
+    "Family",
+    "Setting",
+    "family",
+    "solve",
+    "solve_enable",
+]

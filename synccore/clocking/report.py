@@ -1,0 +1,163 @@
+"""A clock plan in words and as plain data: shared by the command line, JSON and file headers."""
+
+from __future__ import annotations
+
+from fractions import Fraction
+from typing import Any
+
+from ..units import fixed, hz, in_unit
+from .plan import ClockPlan, Route
+from .solve import EnableSetting, Setting
+
+TOLERANCE_SOURCE = "VESA DMT (from memory)"
+
+
+def ppm_text(ppm: Fraction) -> str:
+    """Signed parts per million, e.g. ``-1986.1 ppm``."""
+    return f"{'+' if ppm > 0 else ''}{fixed(ppm, 1)} ppm"
+
+
+def percent_text(share: Fraction) -> str:
+    return f"{'+' if share > 0 else ''}{fixed(share * 100, 3)} %"
+
+
+def route_text(r: Route) -> str:
+    """One setting in one line: the dividers and the frequencies they give."""
+    if isinstance(r, EnableSetting):
+        if r.divide == 1:
+            return f"board clock used as the core clock: {hz(r.f_out)}"
+        return f"ce every {r.divide} cycles of {hz(r.f_board)} = {hz(r.f_out)}"
+    params = " ".join(f"{k}={_number(v)}" for k, v in r.parameters().items())
+    if r.family.ratio_params is not None:
+        counters = " ".join(f"{k}={_number(v)}" for k, v in r.counters().items())
+        params += f" (counters {counters})"
+    return f"{params}  PFD {hz(r.f_pfd)}  VCO {hz(r.f_vco)}  out {hz(r.f_out)}"
+
+
+def _number(v: int | Fraction) -> str:
+    return str(v) if isinstance(v, int) else fixed(v, 3)
+
+
+def plan_facts(plan: ClockPlan) -> list[tuple[str, str]]:
+    """The plan's figures as (label, text) rows."""
+    t = plan.timing
+    rows = [("board clock", hz(plan.f_board))]
+    if plan.family is None:
+        rows.append(("route", "no PLL: the core runs on the board clock with a clock enable"))
+    else:
+        rows += [("family", plan.family.title), ("limits from", plan.family.document)]
+    rows.append(("pixel clock wanted", hz(t.pixel_clock_hz)))
+    if t.ppc > 1:
+        rows.append(("core clock wanted", f"{hz(t.core_clock_hz)} (pixel clock / {t.ppc})"))
+    rows.append(("serialiser clocks", f"TMDS bit clock x10 = {hz(t.pixel_clock_hz * 10)}, "
+                                          f"DDR x5 = {hz(t.pixel_clock_hz * 5)}"))  # fmt: skip
+    best = plan.best
+    if best is None:
+        rows.append(("setting", "none: " + _no_setting_reason(plan)))
+        return rows
+    rows.append(("setting", route_text(best)))
+    if isinstance(best, EnableSetting) and best.f_board < plan.target * (1 - plan.tolerance):
+        rows.append(("note", "the board clock is slower than the core clock: this needs a PLL"))
+    px = plan.reached_pixel_hz
+    assert px is not None and plan.line_rate_hz is not None and plan.refresh_hz is not None
+    rows += [
+        ("pixel clock reached", f"{hz(px)} ({ppm_text(best.ppm)}, {percent_text(best.error)})"),
+        ("line rate", f"{in_unit(plan.line_rate_hz, 'kHz')} kHz "
+                      f"(wanted {in_unit(t.line_rate_hz, 'kHz')} kHz)"),
+        ("refresh", f"{fixed(plan.refresh_hz, 3)} Hz (wanted {fixed(t.refresh_hz, 3)} Hz)"),
+        ("tolerance", f"+/-{fixed(plan.tolerance * 100, 1)} % on the pixel clock, "
+                      f"{TOLERANCE_SOURCE}: "
+                      + ("within" if plan.within_tolerance else "OUTSIDE")),
+    ]  # fmt: skip
+    return rows
+
+
+def _no_setting_reason(plan: ClockPlan) -> str:
+    fam = plan.family
+    assert fam is not None
+    r = fam.input_range
+    if not r.holds(plan.f_board):
+        low = hz(r.low) if r.low is not None else "0 Hz"
+        high = hz(r.high) if r.high is not None else "any"
+        return f"the board clock is outside the {fam.primitive} input range {low} to {high}"
+    return "no legal setting reaches the output range"
+
+
+def adjustment_facts(plan: ClockPlan) -> list[tuple[str, str]]:
+    """The suggested horizontal total, when the plan offers one."""
+    a = plan.adjustment
+    if a is None:
+        return []
+    h = plan.spec.horizontal
+    return [
+        ("horizontal total", f"{h.total} -> {a.h_total} pixels (active {h.active} and sync "
+                             f"{h.sync} kept)"),
+        ("front porch", f"{h.front_porch} -> {a.front_porch}"),
+        ("back porch", f"{h.back_porch} -> {a.back_porch}"),
+        ("pixel clock", f"{hz(a.pixel_clock_hz)} keeps refresh exact; reached "
+                        f"{hz(a.route.f_out * plan.timing.ppc)}"),
+        ("setting", route_text(a.route)),
+        ("refresh", f"{fixed(a.refresh_hz, 3)} Hz ({percent_text(a.refresh_error)} from "
+                    f"{fixed(plan.timing.refresh_hz, 3)} Hz)"),
+    ]  # fmt: skip
+
+
+def _json_number(v: Fraction | int) -> int | float:
+    f = Fraction(v)
+    return int(f) if f.denominator == 1 else float(f)
+
+
+def _route_dict(r: Route) -> dict[str, Any]:
+    if isinstance(r, EnableSetting):
+        return {
+            "route": "clock_enable",
+            "divide": r.divide,
+            "reached_hz": _json_number(r.f_out),
+            "error_ppm": round(float(r.ppm), 3),
+        }
+    assert isinstance(r, Setting)
+    return {
+        "route": "pll",
+        "primitive": r.family.primitive,
+        "parameters": {k: _json_number(v) for k, v in r.parameters().items()},
+        "counters": {k: _json_number(v) for k, v in r.counters().items()},
+        "pfd_hz": _json_number(r.f_pfd),
+        "vco_hz": _json_number(r.f_vco),
+        "reached_hz": _json_number(r.f_out),
+        "error_ppm": round(float(r.ppm), 3),
+    }
+
+
+def plan_dict(plan: ClockPlan) -> dict[str, Any]:
+    """The plan as plain JSON-ready data (frequencies in Hz)."""
+    t = plan.timing
+    best = plan.best
+    out: dict[str, Any] = {
+        "spec": plan.spec.name,
+        "family": plan.family.key if plan.family else None,
+        "input_clock_hz": _json_number(plan.f_board),
+        "pixel_clock_hz": _json_number(t.pixel_clock_hz),
+        "pixels_per_clock": t.ppc,
+        "core_clock_hz": _json_number(t.core_clock_hz),
+        "tolerance_ppm": _json_number(plan.tolerance * 10**6),
+        "tolerance_source": TOLERANCE_SOURCE,
+        "best": None if best is None else _route_dict(best),
+        "runners_up": [_route_dict(s) for s in plan.settings[1:]],
+        "within_tolerance": plan.within_tolerance,
+        "line_rate_hz": None if plan.line_rate_hz is None else _json_number(plan.line_rate_hz),
+        "refresh_hz": None if plan.refresh_hz is None else _json_number(plan.refresh_hz),
+        "wanted_refresh_hz": _json_number(t.refresh_hz),
+        "adjustment": None,
+    }
+    a = plan.adjustment
+    if a is not None:
+        out["adjustment"] = {
+            "h_total": a.h_total,
+            "front_porch": a.front_porch,
+            "back_porch": a.back_porch,
+            "pixel_clock_hz": _json_number(a.pixel_clock_hz),
+            "setting": _route_dict(a.route),
+            "refresh_hz": _json_number(a.refresh_hz),
+            "refresh_error_ppm": round(float(a.refresh_error * 10**6), 3),
+        }
+    return out

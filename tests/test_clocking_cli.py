@@ -1,0 +1,297 @@
+"""The clock command, build --clock, the board section of the spec, and the porch adjustment."""
+
+from __future__ import annotations
+
+import json
+import re
+from fractions import Fraction
+from pathlib import Path
+
+import pytest
+from click.testing import CliRunner
+
+from synccore import __version__, loads
+from synccore.cli import main
+from synccore.clocking import FAMILIES, FAMILY_KEYS
+from synccore.clocking.plan import make_plan
+from synccore.schema import json_schema
+
+MHZ = 10**6
+
+# VESA DMT 640x480@60 (from memory): 25.175 MHz, 800 x 525 total, both syncs negative.
+DMT_640 = """\
+name: vga
+pixel_clock_hz: 25.175 MHz
+horizontal: {active: 640, front_porch: 16, sync: 96, back_porch: 48, sync_polarity: negative}
+vertical: {active: 480, front_porch: 10, sync: 2, back_porch: 33, sync_polarity: negative}
+"""
+DMT_640_PIXEL_HZ = Fraction("25.175") * MHZ
+DMT_640_REFRESH_HZ = DMT_640_PIXEL_HZ / (800 * 525)
+
+
+def write(tmp_path: Path, text: str, name: str = "vga.yaml") -> str:
+    path = tmp_path / name
+    path.write_text(text)
+    return str(path)
+
+
+def run(*args: str) -> tuple[int, str, str]:
+    result = CliRunner().invoke(main, list(args))
+    return result.exit_code, result.stdout, result.stderr
+
+
+# ------------------------------------------------------------------ the spec
+
+
+def test_board_section_is_read() -> None:
+    spec = loads(DMT_640 + "board: {clock_hz: 12 MHz, family: ice40}\n")
+    assert spec.board.clock_hz == 12 * MHZ and spec.board.family == "ice40"
+    assert loads(DMT_640).board.clock_hz is None
+
+
+def test_board_family_must_be_known() -> None:
+    with pytest.raises(Exception) as err:
+        loads(DMT_640 + "board: {clock_hz: 12 MHz, family: ice41}\n")
+    assert re.fullmatch(
+        r"<string>:5:35: board\.family: must be one of ice40, ecp5, xc7-mmcm, xc7-pll, gowin, "
+        r"cyclone, got 'ice41' \(did you mean 'ice40'\?\)",
+        str(err.value),
+    )
+
+
+def test_schema_lists_the_board_section() -> None:
+    board = json_schema()["properties"]["board"]
+    assert set(board["properties"]) == {"clock_hz", "family"}
+    assert board["properties"]["family"]["enum"] == list(FAMILY_KEYS)
+
+
+# ------------------------------------------------------------ the 0.7 % check
+
+
+def test_clock_reports_640x480_at_25_000_mhz_as_0_7_percent_slow(tmp_path: Path) -> None:
+    spec = write(tmp_path, DMT_640)
+    code, out, _ = run("clock", spec, "--board-clock", "100MHz", "--no-pll", "--json")
+    assert code == 0
+    data = json.loads(out)
+    assert data["best"] == {"route": "clock_enable", "divide": 4, "reached_hz": 25_000_000,
+                            "error_ppm": data["best"]["error_ppm"]}  # fmt: skip
+    # common practice: 0.7 % slow; VESA DMT allows ±0.5 % (from memory)
+    assert round(data["best"]["error_ppm"] / 10**4, 1) == -0.7
+    assert data["within_tolerance"] is False
+    assert data["refresh_hz"] == pytest.approx(25e6 / (800 * 525))
+    code, out, _ = run("clock", spec, "--board-clock", "100MHz", "--no-pll")
+    assert re.search(
+        r"^pixel clock reached\s+25\.000 MHz \(-6951\.3 ppm, -0\.695 %\)\s*$", out, re.M
+    )
+    assert re.search(r"OUTSIDE\s*$", out, re.M)
+    assert "No setting is within +/-0.5 % of the pixel clock." in out
+
+
+def test_adjustment_keeps_refresh_on_target(tmp_path: Path) -> None:
+    """From 25 MHz no route reaches 25.175 MHz; a shorter line at 25.000 MHz keeps ~59.94 Hz."""
+    spec = loads(DMT_640)
+    plan = make_plan(spec, f_board=Fraction(25 * MHZ), family=None)
+    adj = plan.adjustment
+    assert adj is not None
+    h = spec.horizontal
+    assert adj.h_total == adj.front_porch + h.sync + adj.back_porch + h.active
+    assert abs(adj.front_porch - h.front_porch) <= h.front_porch // 4
+    assert abs(adj.back_porch - h.back_porch) <= h.back_porch // 4
+    reached = adj.route.f_out / (adj.h_total * 525)
+    assert reached == adj.refresh_hz
+    # a whole number of pixels per line: refresh lands within half a pixel of a line (~0.06 %)
+    assert abs(reached - DMT_640_REFRESH_HZ) / DMT_640_REFRESH_HZ <= Fraction(1, 2 * adj.h_total)
+    assert adj.h_total == 794  # 25.000 MHz / (59.94 Hz x 525 lines) = 794.4 pixels
+
+
+def test_within_tolerance_offers_no_adjustment() -> None:
+    plan = make_plan(loads(DMT_640), f_board=Fraction(12 * MHZ), family=FAMILIES["ice40"])
+    assert plan.within_tolerance and plan.adjustment is None
+
+
+# --------------------------------------------------------------- the command
+
+
+def test_clock_json_names_every_divider(tmp_path: Path) -> None:
+    spec = write(tmp_path, DMT_640 + "board: {clock_hz: 12 MHz, family: ice40}\n")
+    code, out, _ = run("clock", spec, "--json")
+    assert code == 0
+    data = json.loads(out)
+    assert data["family"] == "ice40" and data["input_clock_hz"] == 12 * MHZ
+    best = data["best"]
+    assert set(best["parameters"]) == {"DIVR", "DIVF", "DIVQ", "FILTER_RANGE"}
+    # reached = f_in * (DIVF + 1) / ((DIVR + 1) * 2**DIVQ)   (TN1251, from memory)
+    p = best["parameters"]
+    reached = Fraction(12 * MHZ) * (p["DIVF"] + 1) / ((p["DIVR"] + 1) * 2 ** p["DIVQ"])
+    assert best["reached_hz"] == reached
+    assert best["vco_hz"] == Fraction(12 * MHZ) * (p["DIVF"] + 1) / (p["DIVR"] + 1)
+    assert len(data["runners_up"]) == 3
+    assert data["refresh_hz"] == pytest.approx(float(reached / (800 * 525)))
+
+
+@pytest.mark.parametrize("key", FAMILY_KEYS)
+def test_clock_json_for_every_family(tmp_path: Path, key: str) -> None:
+    spec = write(tmp_path, DMT_640)
+    code, out, _ = run("clock", spec, "--board-clock", "27 MHz", "--family", key, "--json")
+    assert code == 0
+    data = json.loads(out)
+    fam = FAMILIES[key]
+    assert data["family"] == key and data["best"]["primitive"] == fam.primitive
+    names = {fam.input_divider.param, fam.multiplier.param, fam.output_divider.param}
+    assert set(data["best"]["counters"]) == names
+
+
+def test_unknown_family_is_one_line(tmp_path: Path) -> None:
+    code, out, err = run("clock", write(tmp_path, DMT_640), "--board-clock", "12MHz",
+                         "--family", "spartan")  # fmt: skip
+    assert code == 2 and out == ""
+    assert re.fullmatch(r"--family: unknown FPGA family 'spartan'; choose from ice40, ecp5, "
+                        r"xc7-mmcm, xc7-pll, gowin, cyclone\n", err)  # fmt: skip
+
+
+def test_bad_board_clock_is_one_line(tmp_path: Path) -> None:
+    code, _, err = run("clock", write(tmp_path, DMT_640), "--board-clock", "fast")
+    assert code == 2
+    assert re.fullmatch(r'--board-clock: must be a frequency like "12MHz" or "27 MHz", '
+                        r"got 'fast'\n", err)  # fmt: skip
+
+
+def test_missing_board_clock_is_one_line(tmp_path: Path) -> None:
+    code, _, err = run("clock", write(tmp_path, DMT_640))
+    assert code == 2
+    assert re.fullmatch(r"--board-clock: no board clock given; pass --board-clock or set "
+                        r"board\.clock_hz in the spec\n", err)  # fmt: skip
+
+
+def test_input_outside_the_range_says_so(tmp_path: Path) -> None:
+    # PLLE2 input 19-800 MHz (DS181, from memory): 12 MHz is too slow
+    code, out, _ = run("clock", write(tmp_path, DMT_640), "--board-clock", "12MHz",
+                       "--family", "xc7-pll")  # fmt: skip
+    assert code == 0
+    assert re.search(r"^setting\s+none: the board clock is outside the PLLE2_BASE input range "
+                     r"19\.000 MHz to 800\.000 MHz", out, re.M)  # fmt: skip
+
+
+def test_core_clock_with_pixels_per_clock(tmp_path: Path) -> None:
+    text = DMT_640.replace("name: vga\n", "name: vga\ncore: {pixels_per_clock: 2}\n")
+    code, out, _ = run("clock", write(tmp_path, text), "--board-clock", "25MHz", "--family",
+                       "xc7-mmcm", "--json")  # fmt: skip
+    data = json.loads(out)
+    assert data["core_clock_hz"] == pytest.approx(25.175e6 / 2)
+    assert abs(data["best"]["reached_hz"] - 25.175e6 / 2) < 25.175e6 / 2 * 0.005
+
+
+# ------------------------------------------------------------------- build
+
+
+def test_build_clock_writes_wrapper_and_constraints(tmp_path: Path) -> None:
+    spec = write(tmp_path, DMT_640 + "board: {clock_hz: 12 MHz, family: ice40}\n")
+    out = tmp_path / "out"
+    code, _, err = run("build", spec, "-o", str(out), "--clock")
+    assert code == 0, err
+    assert sorted(p.name for p in out.iterdir()) == [
+        "vga.v", "vga.vhd", "vga_clock.sdc", "vga_clock.v", "vga_clock.vhd"]  # fmt: skip
+    sdc = (out / "vga_clock.sdc").read_text()
+    assert "create_clock -name board_clk -period 83.333 [get_ports {clk_in}]" in sdc
+    assert re.search(r"^create_clock -name core_clk -period [0-9.]+ \[get_nets \{clk\}\]$", sdc,
+                     re.M)  # fmt: skip
+    text = (out / "vga_clock.v").read_text()
+    assert "SB_PLL40_CORE #(" in text and '.FEEDBACK_PATH("SIMPLE")' in text
+
+
+def test_build_clock_xdc_for_xilinx(tmp_path: Path) -> None:
+    spec = write(tmp_path, DMT_640)
+    out = tmp_path / "out"
+    code, _, err = run("build", spec, "-o", str(out), "--clock", "--board-clock", "100MHz",
+                       "--family", "xc7-mmcm")  # fmt: skip
+    assert code == 0, err
+    xdc = (out / "vga_clock.xdc").read_text()
+    assert "create_clock -period 10.000 -name board_clk [get_ports clk_in]" in xdc
+
+
+def test_build_without_board_clock_writes_nothing(tmp_path: Path) -> None:
+    out = tmp_path / "out"
+    code, _, err = run("build", write(tmp_path, DMT_640), "-o", str(out), "--clock")
+    assert code == 2 and not out.exists()
+    assert err.startswith("--board-clock: no board clock given")
+
+
+def test_clock_enable_route_needs_the_ce_input(tmp_path: Path) -> None:
+    out = tmp_path / "out"
+    code, _, err = run("build", write(tmp_path, DMT_640), "-o", str(out), "--clock",
+                       "--board-clock", "100MHz", "--no-pll")  # fmt: skip
+    assert code == 2 and not out.exists()
+    assert re.fullmatch(r"core\.clock_enable: must be true for the clock-enable route \(ce every "
+                        r"4 cycles of 100\.000 MHz\), got false\n", err)  # fmt: skip
+    text = DMT_640.replace("name: vga\n", "name: vga\ncore: {clock_enable: true}\n")
+    code, _, err = run("build", write(tmp_path, text, "ce.yaml"), "-o", str(out), "--clock",
+                       "--board-clock", "100MHz", "--no-pll")  # fmt: skip
+    assert code == 0, err
+    assert "module vga_clock" in (out / "vga_clock.v").read_text()
+
+
+def test_board_options_need_clock(tmp_path: Path) -> None:
+    out = tmp_path / "out"
+    code, _, err = run("build", write(tmp_path, DMT_640), "-o", str(out), "--family", "ice40")
+    assert code == 2 and not out.exists()
+    assert re.fullmatch(r"--board-clock, --family and --no-pll need --clock\n", err)
+
+
+def test_adjustment_through_a_pll_uses_a_legal_setting(tmp_path: Path) -> None:
+    """iCE40 from 25 MHz misses 25.175 MHz by 0.7 %; the suggested line length fixes refresh."""
+    spec = write(tmp_path, DMT_640)
+    code, out, _ = run("clock", spec, "--board-clock", "25MHz", "--family", "ice40", "--json")
+    data = json.loads(out)
+    assert code == 0 and data["within_tolerance"] is False
+    adj = data["adjustment"]
+    p = adj["setting"]["parameters"]
+    # TN1251 (from memory): f_out = f_in * (DIVF + 1) / ((DIVR + 1) * 2**DIVQ), VCO 533-1066 MHz
+    f_in = Fraction(25 * MHZ)
+    vco = f_in * (p["DIVF"] + 1) / (p["DIVR"] + 1)
+    assert 533 * MHZ <= vco <= 1066 * MHZ
+    reached = vco / 2 ** p["DIVQ"]
+    assert adj["setting"]["reached_hz"] == reached
+    refresh = reached / (adj["h_total"] * 525)
+    assert adj["refresh_hz"] == pytest.approx(float(refresh))
+    assert abs(refresh - DMT_640_REFRESH_HZ) / DMT_640_REFRESH_HZ < Fraction(5, 1000)
+    h = (adj["front_porch"], adj["back_porch"])
+    assert adj["h_total"] == 640 + 96 + sum(h)
+    assert abs(h[0] - 16) <= 4 and abs(h[1] - 48) <= 12  # each porch within ±25 %
+
+
+def test_board_section_validates_against_the_schema() -> None:
+    jsonschema = pytest.importorskip("jsonschema")
+    import yaml
+
+    doc = yaml.safe_load(DMT_640 + "board: {clock_hz: 12 MHz, family: gowin}\n")
+    jsonschema.validate(doc, json_schema())
+    doc["board"]["family"] = "ice41"
+    with pytest.raises(jsonschema.ValidationError):
+        jsonschema.validate(doc, json_schema())
+
+
+@pytest.mark.parametrize("key", [*FAMILY_KEYS, None])
+def test_clock_files_are_deterministic(tmp_path: Path, key: str | None) -> None:
+    """Same input, same text; no absolute paths, no timestamps."""
+    from synccore.build import clock_artifacts
+
+    source = write(tmp_path, DMT_640)
+    spec = loads(Path(source).read_text(), source=source)
+    first = clock_artifacts(make_plan(spec, f_board=Fraction(27 * MHZ),
+                                      family=FAMILIES[key] if key else None))  # fmt: skip
+    second = clock_artifacts(make_plan(spec, f_board=Fraction(27 * MHZ),
+                                       family=FAMILIES[key] if key else None))  # fmt: skip
+    assert [a.text for a in first] == [a.text for a in second]
+    for a in first:
+        assert str(tmp_path) not in a.text
+        assert a.text.splitlines()[0].endswith(
+            f"Generated by synccore {__version__} from vga.yaml; do not edit, regenerate instead."
+        )
+        assert a.text.isascii()
+
+
+def test_slow_board_clock_without_pll_says_a_pll_is_needed(tmp_path: Path) -> None:
+    code, out, _ = run("clock", write(tmp_path, DMT_640), "--board-clock", "12MHz")
+    assert code == 0
+    assert re.search(r"^note\s+the board clock is slower than the core clock: this needs a PLL",
+                     out, re.M)  # fmt: skip
