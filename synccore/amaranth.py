@@ -139,7 +139,8 @@ class _Harness(Elaboratable):  # type: ignore[misc]
         line_starts, frame_starts = Signal(16), Signal(16)
         with m.If(advance):
             m.d.sync += adv.eq(adv + 1)
-            with m.If(core.de & prev_de & ((x_d != prev_x + t.ppc) | (y_d != prev_y))):
+            steps = (x_d != prev_x + t.ppc) | (y_d != prev_y)
+            with m.If((adv > lead + 1) & core.de & prev_de & steps):
                 m.d.sync += step_faults.eq(step_faults + 1)
             m.d.sync += [prev_de.eq(core.de), prev_x.eq(x_d), prev_y.eq(y_d)]
             with m.If(core.de):

@@ -123,6 +123,17 @@ QUANTITIES: tuple[tuple[str, str, str], ...] = (
 LABELS = {key: (label, unit) for key, label, unit in QUANTITIES}
 
 
+def _idle_level(events: Sequence[Event], name: str) -> set[int]:
+    """The level(s) a sync holds for most of the cycles during which de is high."""
+    cycles = [0, 0]
+    for e, nxt in zip(events, events[1:], strict=False):
+        if e.de:
+            cycles[getattr(e, name)] += nxt.adv - e.adv
+    if cycles[0] == cycles[1]:
+        return {0, 1} if cycles[0] else set()
+    return {0 if cycles[0] > cycles[1] else 1}
+
+
 def _polarity(idle: set[int]) -> tuple[object, ...]:
     return tuple(sorted("negative" if level else "positive" for level in idle))
 
@@ -150,9 +161,10 @@ def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
     de_runs = [(s, e) for s, e in _pulses(events, "de", 1) if e is not None]
     if de_runs:
         found["first_de"].add(de_runs[0][0])
-    # Polarity: a sync's idle level is its level while de is high.
-    h_idle = {e.hsync for e in events if e.de}
-    v_idle = {e.vsync for e in events if e.de}
+    # Polarity: a sync's idle level is the level it holds for most of the time de is high
+    # (vsync may overlap the first active line when the vertical back porch is 0).
+    h_idle = _idle_level(events, "hsync")
+    v_idle = _idle_level(events, "vsync")
     h_active_level = 1 - min(h_idle) if len(h_idle) == 1 else t.hsync_active_level
     v_active_level = 1 - min(v_idle) if len(v_idle) == 1 else t.vsync_active_level
     hs = [(s, e) for s, e in _pulses(events, "hsync", h_active_level) if e is not None]

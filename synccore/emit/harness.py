@@ -34,6 +34,7 @@ class HarnessContext:
     reset_cycles: int
     lead: int
     lead_last: int  # index of the last stage of the lead delay line
+    check_from: int  # x/y steps are judged from this advancing edge on (lead + 1)
     ppc: int
     lfsr_seed: int
     event_format: str  # Verilog $fwrite format of one event line
@@ -54,6 +55,7 @@ def harness_context(spec: Spec) -> HarnessContext:
         reset_cycles=RESET_CYCLES,
         lead=spec.core.lead,
         lead_last=spec.core.lead - 1,
+        check_from=spec.core.lead + 1,
         ppc=t.ppc,
         lfsr_seed=LFSR_SEED,
         event_format=" ".join("%0d" for _ in MONITOR_FIELDS),
