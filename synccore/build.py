@@ -54,6 +54,16 @@ def clock_artifacts(plan: ClockPlan) -> list[Artifact]:
     ]
 
 
+def testbench_artifacts(spec: Spec) -> list[Artifact]:
+    """Self-checking stand-alone test benches, one per language."""
+    from .emit.testbench import render_testbench
+
+    return [
+        Artifact(f"{spec.name}_tb.v", render_testbench(spec, "verilog")),
+        Artifact(f"{spec.name}_tb.vhd", render_testbench(spec, "vhdl")),
+    ]
+
+
 def _generated_by_us(path: Path) -> bool:
     try:
         with path.open("r", encoding="utf-8", errors="replace") as f:

@@ -11,7 +11,7 @@ from rich.console import Console
 from rich.table import Table
 
 from ._version import __version__
-from .build import core_artifacts, write_artifacts
+from .build import core_artifacts, testbench_artifacts, write_artifacts
 from .cli_clock import board_options, build_clock_artifacts, clock, print_plan
 from .errors import SpecError
 from .model import Timing
@@ -85,16 +85,20 @@ def main() -> None:
 @click.option("--clock", "with_clock", is_flag=True,
               help="Also write the clock wrapper OUT/<name>_clock.v/.vhd and its constraints.")
 @board_options
+@click.option("--testbench", "with_testbench", is_flag=True,
+              help="Also write self-checking test benches OUT/<name>_tb.v and OUT/<name>_tb.vhd.")
 @click.option("--verify", "then_verify", is_flag=True,
               help="Then run the core in every simulator found and measure it (see `verify`).")
 def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: str | None,
-          family: str | None, no_pll: bool, then_verify: bool) -> None:  # fmt: skip
+          family: str | None, no_pll: bool, with_testbench: bool, then_verify: bool) -> None:  # fmt: skip
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = _load(spec)
     console = _console()
     if not with_clock and (board_clock or family or no_pll):
         _fail_line("--board-clock, --family and --no-pll need --clock")
     artifacts = core_artifacts(s)
+    if with_testbench:
+        artifacts += testbench_artifacts(s)
     plan = None
     try:
         if with_clock:
