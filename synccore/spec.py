@@ -118,6 +118,15 @@ BOARD_FIELDS = (
           required=False, choices=FAMILY_KEYS),
 )  # fmt: skip
 
+COLOR_FIELDS = (
+    Field("red", "int", "bits of the red channel on the colour pins", required=False,
+          default=4, minimum=1, maximum=8),
+    Field("green", "int", "bits of the green channel", required=False, default=4,
+          minimum=1, maximum=8),
+    Field("blue", "int", "bits of the blue channel", required=False, default=4,
+          minimum=1, maximum=8),
+)  # fmt: skip
+
 SPEC_FIELDS = (
     Field("name", "identifier", "module / entity name, legal in Verilog and VHDL"),
     Field("standard", "text", 'a library timing instead of the explicit keys: "1280x720@60", '
@@ -138,6 +147,8 @@ SPEC_FIELDS = (
     Field("ports", "section", "port naming", required=False, fields=PORT_FIELDS),
     Field("board", "section", "the board's clock, for clock planning", required=False,
           fields=BOARD_FIELDS),
+    Field("color", "section", "colour depth of the test-pattern design (build --pattern)",
+          required=False, fields=COLOR_FIELDS),
 )  # fmt: skip
 
 
@@ -180,6 +191,15 @@ class Board:
 
 
 @dataclass(frozen=True)
+class Color:
+    """Bits per colour channel of the test-pattern design; 4-4-4 unless the spec says."""
+
+    red: int = 4
+    green: int = 4
+    blue: int = 4
+
+
+@dataclass(frozen=True)
 class Spec:
     """A validated timing description."""
 
@@ -195,6 +215,7 @@ class Spec:
     notes: tuple[str, ...] = ()
     """What the resolution step adjusted or wants the user to know, one sentence each."""
     board: Board = Board()
+    color: Color = Color()
 
 
 # ---------------------------------------------------------------- frequencies
@@ -426,6 +447,7 @@ def validate(doc: loader.Node, *, source: str = "<string>") -> Spec:
         origin=resolved.origin,
         notes=resolved.notes,
         board=Board(**values["board"]) if values["board"] else Board(),
+        color=Color(**values["color"]) if values["color"] else Color(),
     )
 
 
@@ -488,6 +510,7 @@ def to_dict(spec: Spec) -> dict[str, Any]:
         "core": vars(spec.core).copy(),
         "port_prefix": spec.port_prefix,
         "source": spec.source,
+        "color": vars(spec.color).copy(),
     }
 
 
@@ -501,4 +524,5 @@ def from_dict(data: dict[str, Any]) -> Spec:
         core=CoreOptions(**data["core"]),
         port_prefix=data["port_prefix"],
         source=data["source"],
+        color=Color(**data.get("color", {})),
     )
