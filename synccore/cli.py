@@ -11,11 +11,12 @@ from rich.console import Console
 from rich.table import Table
 
 from ._version import __version__
-from .build import core_artifacts, write_artifacts
+from .build import core_artifacts, pattern_artifacts, write_artifacts
 from .cli_clock import board_options, build_clock_artifacts, clock, print_plan
 from .errors import SpecError
 from .model import Timing
 from .modeline import format_line
+from .pattern import PATTERNS, pattern_problems
 from .report import figures, options, timing_table
 from .schema import json_schema
 from .spec import Spec, load
@@ -87,14 +88,22 @@ def main() -> None:
 @board_options
 @click.option("--verify", "then_verify", is_flag=True,
               help="Then run the core in every simulator found and measure it (see `verify`).")
+@click.option("--pattern", type=click.Choice(PATTERNS), default=None,
+              help="Also write a test-pattern generator and a first-light top level "
+                   "(OUT/<name>_pattern.*, OUT/<name>_top.*).")
 def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: str | None,
-          family: str | None, no_pll: bool, then_verify: bool) -> None:  # fmt: skip
+          family: str | None, no_pll: bool, then_verify: bool, pattern: str | None) -> None:  # fmt: skip
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = _load(spec)
     console = _console()
     if not with_clock and (board_clock or family or no_pll):
         _fail_line("--board-clock, --family and --no-pll need --clock")
     artifacts = core_artifacts(s)
+    if pattern is not None:
+        problems = pattern_problems(s)
+        if problems:
+            _fail_line(f"{s.source}: {problems[0]}")
+        artifacts += pattern_artifacts(s, pattern)
     plan = None
     try:
         if with_clock:
