@@ -126,13 +126,23 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
 @click.argument("spec", type=click.Path(dir_okay=False))
 @click.option("--modeline", "as_modeline", is_flag=True,
               help="Print the timing as one X.Org modeline instead of the summary.")
-def show(spec: str, as_modeline: bool) -> None:
-    """Validate SPEC and print its timing summary; writes nothing."""
+@click.option("--diagram", type=click.Path(dir_okay=False),
+              help="Also draw the horizontal and vertical timing to scale into this .svg or .png.")
+def show(spec: str, as_modeline: bool, diagram: str | None) -> None:
+    """Validate SPEC and print its timing summary; writes nothing unless --diagram is given."""
     s = _load(spec)
+    if diagram is not None:
+        from .diagram import draw
+
+        if Path(diagram).suffix.lower() not in (".svg", ".png"):
+            _fail_line(f"--diagram must name a .svg or .png file, got {diagram!r}")
+        draw(s, diagram)
     if as_modeline:
         click.echo(format_line(s.name, s.pixel_clock_hz, s.horizontal, s.vertical))
         return
     print_summary(s, _console())
+    if diagram is not None:
+        _console().print(f"wrote {diagram}")
 
 
 @main.command()
@@ -238,3 +248,8 @@ def verify_command(spec: str, sims: str | None, frames: int, waves: bool,
 
 
 main.add_command(clock)
+
+# The picture before the board: simulated monitor.
+from .cli_picture import view_command  # noqa: E402
+
+main.add_command(view_command)
