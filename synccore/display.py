@@ -170,8 +170,17 @@ def to_8bit(level: np.ndarray, bits: int) -> np.ndarray:
 def watch(pins: Pins, *, monitor_range: tuple[tuple[float, float], tuple[float, float]] | None = None,
           modes: tuple[Mode, ...] | None = None) -> Monitor:  # fmt: skip
     """Measure, name, lock and sample: everything a monitor does with ``pins``."""
-    mon = Monitor(period_s=pins.period_s)
     hp, vp = _pulses(pins.hsync), _pulses(pins.vsync)
+    mon = read_syncs(pins.period_s, hp, vp, modes=modes)
+    if hp is None or mon.line_cycles is None:
+        return mon
+    return _finish(mon, pins, mon.mode, hp, vp, monitor_range)
+
+
+def read_syncs(period_s: float, hp: Pulses | None, vp: Pulses | None, *,
+               modes: tuple[Mode, ...] | None = None) -> Monitor:  # fmt: skip
+    """Steps 1-3 from the sync pulses alone: polarities, rates, widths, jitter, the mode's name."""
+    mon = Monitor(period_s=period_s)
     if hp is None or len(hp.leading) < 2:
         mon.problems.append("no hsync: fewer than two hsync pulses seen")
         return mon
@@ -183,23 +192,23 @@ def watch(pins: Pins, *, monitor_range: tuple[tuple[float, float], tuple[float, 
     if hp.widths.min() != hp.widths.max():
         mon.problems.append(f"jitter: hsync width varies from {hp.widths.min()} to {hp.widths.max()} clocks")
     mon.hsync_cycles = int(hp.widths[0])
-    mon.line_rate_hz = 1 / (mon.line_cycles * pins.period_s)
+    mon.line_rate_hz = 1 / (mon.line_cycles * period_s)
     if vp is None or len(vp.leading) < 2:
         mon.problems.append("no vsync: fewer than two vsync pulses seen, refresh unknown")
-        return _finish(mon, pins, None, hp, vp, monitor_range)
+        return mon
     mon.vsync_polarity = "positive" if vp.active_level else "negative"
     fperiods = np.diff(vp.leading)
     mon.frame_cycles = int(fperiods[0])
     if fperiods.min() != fperiods.max():
         mon.problems.append(f"jitter: frame period varies from {fperiods.min()} to {fperiods.max()} clocks")
-    mon.refresh_hz = 1 / (mon.frame_cycles * pins.period_s)
+    mon.refresh_hz = 1 / (mon.frame_cycles * period_s)
     lines = Fraction(mon.frame_cycles, mon.line_cycles)
     mon.lines_per_frame = round(lines)
     if lines.denominator != 1:
         mon.problems.append(f"a frame is not a whole number of lines: {float(lines):.3f}")
     mon.vsync_lines = round(vp.widths[0] / mon.line_cycles) if len(vp.widths) else None
     name_mode(mon, modes)
-    return _finish(mon, pins, mon.mode, hp, vp, monitor_range)
+    return mon
 
 
 def _finish(mon: Monitor, pins: Pins, mode: Mode | None, hp: Pulses, vp: Pulses | None,
