@@ -4,8 +4,9 @@ Each panel shows the four parts in VESA order (active, front porch, sync, back
 porch) as blocks whose widths are to scale, labelled with their size in pixels
 or lines and in µs or ms, and below them the sync as a drawn waveform of its
 polarity and de (high on active pixels; blank is its inverse).  The
-background is transparent and every text and line carries a light outline
-under a dark stroke, so the drawing reads on light and dark pages alike.
+background is transparent; every text sits on a light rounded box and every
+line carries a light outline under its colour, so the drawing reads on light
+and dark pages alike.
 
 :func:`draw` returns the labels it placed, so tests check the numbers in the
 drawing, not only that a file exists; SVG files keep the labels as text.
@@ -78,6 +79,7 @@ def draw(spec: Spec, path: str | Path) -> Diagram:
         raise ValueError(f"the diagram file must end in .svg or .png, got {path.name!r}")
     marks = labels(spec)
     halo = [patheffects.withStroke(linewidth=3, foreground="white")]
+    box = {"boxstyle": "round,pad=0.2", "facecolor": "white", "edgecolor": "none", "alpha": 0.85}
     ink = "#202020"
     with plt.rc_context({"svg.fonttype": "none", "svg.hashsalt": "synccore", "font.size": 9}):
         fig, panels = plt.subplots(2, 1, figsize=(11, 6.5))
@@ -92,14 +94,13 @@ def draw(spec: Spec, path: str | Path) -> Diagram:
                                            edgecolor=ink, linewidth=0.8))  # fmt: skip
                 middle = start + m.count / 2
                 if m.count >= total / 5:  # room inside the block
-                    txt = ax.text(middle, 2.7, m.text, ha="center", va="center", color=ink, fontsize=8)
+                    ax.text(middle, 2.7, m.text, ha="center", va="center", color=ink, fontsize=8, bbox=box)
                 else:  # narrow: one line above, stacked, with a leader
                     y = 3.5 + 0.45 * stacked
                     stacked += 1
                     ax.plot([middle, middle], [3.2, y], color=ink, linewidth=0.6)
-                    txt = ax.text(middle, y, m.line, ha="right" if middle > total / 2 else "left",
-                                  va="bottom", color=ink, fontsize=8)  # fmt: skip
-                txt.set_path_effects(halo)
+                    ax.text(middle, y, m.line, ha="right" if middle > total / 2 else "left",
+                            va="bottom", color=ink, fontsize=8, bbox=box)  # fmt: skip
                 start += m.count
             # Waveforms: sync (with its polarity) and de.
             sync_start = a.active + a.front_porch
@@ -115,21 +116,23 @@ def draw(spec: Spec, path: str | Path) -> Diagram:
             ax.plot(de_xs, [y * 0.8 - 0.2 for y in de_ys], color="#4c9f70", linewidth=2,
                     path_effects=halo + [patheffects.Normal()])  # fmt: skip
             for y, name in ((1.4, f"{sync_name} ({a.sync_polarity})"), (0.2, "de (blank = not de)")):
-                ax.text(-total * 0.01, y, name, ha="right", va="center", color=ink).set_path_effects(halo)
+                ax.text(-total * 0.01, y, name, ha="right", va="center", color=ink, bbox=box)
             unit = "pixels" if axis_name == "horizontal" else "lines"
-            title = ax.set_title(f"{axis_name}: {total} {unit} per "
-                                 f"{'line' if axis_name == 'horizontal' else 'frame'}",
-                                 color=ink, loc="left")  # fmt: skip
-            title.set_path_effects(halo)
+            ax.set_title(f"{axis_name}: {total} {unit} per "
+                         f"{'line' if axis_name == 'horizontal' else 'frame'}",
+                         color=ink, loc="left", bbox=box)  # fmt: skip
             ax.set_xlim(-total * 0.02, total * 1.02)
             ax.set_ylim(-0.5, 5.4)
             ax.set_yticks([])
-            ax.set_xlabel(unit, color=ink)
-            ax.tick_params(colors=ink)
+            ax.set_xlabel(unit, color=ink, bbox=box)
+            ax.tick_params(colors="#808080")
+            ax.spines["bottom"].set_color("#808080")
+            for tick in ax.get_xticklabels():
+                tick.set_bbox(box)
             for spine in ("left", "right", "top"):
                 ax.spines[spine].set_visible(False)
         fig.suptitle(f"{spec.name}: {float(spec.pixel_clock_hz) / 1e6:.3f} MHz pixel clock",
-                     color=ink).set_path_effects(halo)  # fmt: skip
+                     color=ink, bbox=box)  # fmt: skip
         fig.tight_layout()
         fig.subplots_adjust(left=0.14)
         path.parent.mkdir(parents=True, exist_ok=True)
