@@ -10,7 +10,8 @@ import click
 from rich.console import Console
 from rich.table import Table
 
-from .spec import SpecError, load
+from .errors import SpecError
+from .spec import load
 
 MONITOR_CAUTION = (
     "This is a simulated monitor. Before wiring a real one, check the FPGA bank's I/O "

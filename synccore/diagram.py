@@ -73,6 +73,7 @@ def draw(spec: Spec, path: str | Path) -> Diagram:
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
     from matplotlib import patheffects
+    from matplotlib.patches import Rectangle
 
     path = Path(path)
     if path.suffix.lower() not in (".svg", ".png"):
@@ -90,7 +91,7 @@ def draw(spec: Spec, path: str | Path) -> Diagram:
             start = 0
             stacked = 0
             for m in parts:
-                ax.add_patch(plt.Rectangle((start, 2.2), m.count, 1.0, facecolor=_FILL[m.part],
+                ax.add_patch(Rectangle((start, 2.2), m.count, 1.0, facecolor=_FILL[m.part],
                                            edgecolor=ink, linewidth=0.8))  # fmt: skip
                 middle = start + m.count / 2
                 if m.count >= total / 5:  # room inside the block

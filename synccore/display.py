@@ -219,7 +219,8 @@ def _finish(mon: Monitor, pins: Pins, mode: Mode | None, hp: Pulses, vp: Pulses 
             mon.problems.append(f"line rate {mon.line_rate_hz / 1e3:.3f} kHz is outside the monitor's "
                                 f"{lo / 1e3:g}-{hi / 1e3:g} kHz")  # fmt: skip
         if mon.refresh_hz is not None and not flo <= mon.refresh_hz <= fhi:
-            mon.problems.append(f"refresh {mon.refresh_hz:.3f} Hz is outside the monitor's {flo:g}-{fhi:g} Hz")
+            mon.problems.append(f"refresh {mon.refresh_hz:.3f} Hz is outside the monitor's "
+                                f"{flo:g}-{fhi:g} Hz")  # fmt: skip
     if vp is None or len(vp.leading) < 2:
         return mon
     # The frame that begins after the first vsync leading edge.
@@ -248,6 +249,7 @@ def _sample_mode(mon: Monitor, pins: Pins, mode: Mode, hp: Pulses, j0: int) -> N
     if first_line + v.active > len(hp.leading):
         mon.problems.append("the run ends before the picture does")
         return
+    assert mon.line_cycles is not None
     pitch = mon.line_cycles / h.total  # samples per mode pixel
     cols = np.round((h.sync + h.back_porch + np.arange(h.active)) * pitch).astype(np.int64)
     starts = hp.leading[first_line:first_line + v.active]
@@ -271,6 +273,7 @@ def _sample_mode(mon: Monitor, pins: Pins, mode: Mode, hp: Pulses, j0: int) -> N
 
 def _de_mismatch(mon: Monitor, pins: Pins, mode: Mode, hp: Pulses, first_line: int, de: np.ndarray) -> None:
     h, v = mode.horizontal, mode.vertical
+    assert pins.de is not None and mon.line_cycles is not None
     rows = np.flatnonzero(de.any(axis=1))
     msg = f"de region does not match the {h.active}x{v.active} picture the syncs imply"
     # Where de starts on a line that has it, counted from that line's hsync leading edge.

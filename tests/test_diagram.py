@@ -30,7 +30,8 @@ def test_diagram_of_every_example(example: Path, tmp_path: Path) -> None:
     svg = draw(spec, tmp_path / "t.svg")
     texts = _svg_texts(svg.path)
     clock = float(spec.pixel_clock_hz)
-    for axis_name, axis, unit in (("horizontal", spec.horizontal, "px"), ("vertical", spec.vertical, "lines")):
+    panels = (("horizontal", spec.horizontal, "px"), ("vertical", spec.vertical, "lines"))
+    for axis_name, axis, unit in panels:
         got = [lab for lab in svg.labels if lab.axis == axis_name]
         assert [lab.part for lab in got] == list(PARTS)
         sizes = (axis.active, axis.front_porch, axis.sync, axis.back_porch)
