@@ -1,7 +1,9 @@
 """Test patterns for a first-light design: what each pattern draws, pixel by pixel.
 
 A pattern is a function of the pixel's column ``x`` and row ``y`` inside the
-active area (``width`` x ``height``) and of the colour depth; it gives the
+picture (``width`` x ``height``: the active area divided by ``core.scale``,
+so with scale 2 each picture pixel covers 2 x 2 pixels of the signal) and of
+the colour depth; it gives the
 level of each channel, 0 .. 2**bits - 1.  The emitted pattern generator
 (``emit/pattern.py``) computes the same function in hardware; the simulated
 display turns the colour pins back into an image.  Definitions:
@@ -44,10 +46,17 @@ def pattern_problems(spec: Spec) -> list[str]:
     if spec.core.pixels_per_clock != 1:
         out.append("the test-pattern design needs core.pixels_per_clock = 1, "
                    f"got {spec.core.pixels_per_clock}")  # fmt: skip
+    scale = spec.core.scale
     for label, active in (("horizontal", spec.horizontal.active), ("vertical", spec.vertical.active)):
-        if active < MIN_ACTIVE:
-            out.append(f"the test-pattern design needs {label}.active ≥ {MIN_ACTIVE}, got {active}")
+        if active < MIN_ACTIVE * scale:
+            need = f"{MIN_ACTIVE * scale} (core.scale = {scale})" if scale > 1 else str(MIN_ACTIVE)
+            out.append(f"the test-pattern design needs {label}.active ≥ {need}, got {active}")
     return out
+
+
+def picture_size(spec: Spec) -> tuple[int, int]:
+    """Width and height of the pattern's picture: the active area divided by core.scale."""
+    return spec.horizontal.active // spec.core.scale, spec.vertical.active // spec.core.scale
 
 
 def bar_bounds(width: int) -> list[int]:

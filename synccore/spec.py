@@ -31,6 +31,7 @@ POLARITIES = ("positive", "negative")
 RESETS = ("sync_high", "sync_low", "async_high", "async_low")
 VSYNC_ALIGNS = ("hsync", "line")
 PIXELS_PER_CLOCK = (1, 2, 4, 8)
+SCALES = (1, 2, 4)
 
 BASE_PORTS = (
     "clk", "rst", "rst_n", "ce", "hsync", "vsync", "de", "hblank", "vblank",
@@ -80,6 +81,9 @@ CORE_FIELDS = (
     Field("vsync_align", "choice",
           "hsync: vsync edges coincide with the hsync leading edge; line: with the line start",
           required=False, default="hsync", choices=VSYNC_ALIGNS),
+    Field("scale", "choice",
+          "divide x and y by this, e.g. 2 for a 320x240 picture on a 640x480 signal",
+          required=False, default=1, choices=SCALES),
 )  # fmt: skip
 
 FORMULA_METHODS = ("cvt", "cvt-rb", "cvt-rb2", "gtf")
@@ -180,6 +184,7 @@ class CoreOptions:
     reset: str = "sync_high"
     lead: int = 0
     vsync_align: str = "hsync"
+    scale: int = 1
 
 
 @dataclass(frozen=True)
@@ -472,6 +477,11 @@ def _check_cross(
             if value % n:
                 out.add(_where(doc, "horizontal", key), f"horizontal.{key}",
                         f"must divide by core.pixels_per_clock = {n}, got {value}")  # fmt: skip
+    if core.scale > 1:
+        for axis, label in ((h, "horizontal"), (v, "vertical")):
+            if axis.active % core.scale:
+                out.add(_where(doc, label, "active"), f"{label}.active",
+                        f"must divide by core.scale = {core.scale}, got {axis.active}")  # fmt: skip
     frame_cycles = (h.total // n) * v.total
     if core.lead >= frame_cycles and frame_cycles > 0:
         out.add(_where(doc, "core", "lead"), "core.lead",

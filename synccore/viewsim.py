@@ -28,7 +28,7 @@ from .emit._context import GENERATED_MARK
 from .emit._jinja import environment
 from .emit.pattern import pattern_context
 from .model import Timing
-from .pattern import levels
+from .pattern import levels, picture_size
 from .simulate import cache_dir
 from .spec import Spec
 from .tools import INSTALL_HINT, find
@@ -199,10 +199,11 @@ def model_pins(spec: Spec, pattern: str, cycles: int) -> Pins:
     de = (h < t.h_active) & (v < t.v_active)
     hs = np.where(h_on, t.hsync_active_level, 1 - t.hsync_active_level)
     vs = np.where(v_on, t.vsync_active_level, 1 - t.vsync_active_level)
-    w, ht = spec.horizontal.active, spec.vertical.active
+    w, ht = picture_size(spec)
     table = np.array([[levels(pattern, x, y, w, ht, spec.color) for x in range(w)] for y in range(ht)],
                      dtype=np.int64)  # fmt: skip
     rgb = np.zeros((cycles, 3), dtype=np.int64)
-    rgb[de] = table[v[de], h[de]]
+    s = t.scale_shift
+    rgb[de] = table[v[de] >> s, h[de] >> s]
     return Pins(float(1 / spec.pixel_clock_hz), hs, vs, de.astype(np.int64), rgb[:, 0], rgb[:, 1],
                 rgb[:, 2], (spec.color.red, spec.color.green, spec.color.blue))

@@ -17,7 +17,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from ..model import Timing, bits_for
-from ..pattern import GRID_STEP, PATTERNS, PIPELINE_STAGES, bar_bounds, pattern_problems
+from ..pattern import GRID_STEP, PATTERNS, PIPELINE_STAGES, bar_bounds, pattern_problems, picture_size
 from ..spec import Spec
 from . import verilog as vl
 from . import vhdl as vh
@@ -69,7 +69,7 @@ def pattern_context(spec: Spec, pattern: str) -> PatternContext:
     t = Timing(spec)
     core = build_context(t)
     p = spec.port_prefix
-    width, height = spec.horizontal.active, spec.vertical.active
+    width, height = picture_size(spec)
     xb, yb = bits_for(width - 1), bits_for(height - 1)
     channels = []
     for base, bits, source, sbits in (("red", spec.color.red, "x", xb), ("green", spec.color.green, "y", yb),
