@@ -33,7 +33,7 @@ MONITOR_CAUTION = (
 @click.option("--monitor-range", metavar="H,V",
               help="Rates the monitor accepts, e.g. 30-83kHz,56-76Hz.")
 @click.option("--vcd", type=click.Path(dir_okay=False, exists=True),
-              help="Read the pins from your own simulation's VCD instead (needs --map).")
+              help="Read the pins from your own simulation's VCD (or .fst) instead (needs --map).")
 @click.option("--map", "mapping", metavar="LIST",
               help="With --vcd: pin=signal pairs, e.g. clk=top.clk,hsync=top.vga_hs,"
                    "vsync=top.vga_vs,de=top.de,red=top.r,green=top.g,blue=top.b.")

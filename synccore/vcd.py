@@ -1,4 +1,4 @@
-"""Reading a VCD (IEEE 1364 value change dump) into sampled display pins.
+"""Reading a VCD (IEEE 1364 value change dump) or an FST file into sampled display pins.
 
 Only what the simulated monitor needs: the value changes of the signals the
 user maps (``hsync=top.vga_hs,...``), sampled on every falling edge of the
@@ -11,6 +11,7 @@ unique.
 from __future__ import annotations
 
 import re
+from collections.abc import Callable
 from pathlib import Path
 
 import numpy as np
@@ -52,9 +53,38 @@ def _value(text: str) -> int:
     return int(bits, 2) if bits else 0
 
 
+Changes = dict[object, tuple[list[int], list[int]]]
+
+
 def read(path: str | Path, mapping: dict[str, str]) -> Pins:
-    """Sample the mapped signals of the VCD at ``path`` on the clock's falling edges."""
-    text = Path(path).read_text(encoding="utf-8", errors="replace")
+    """Sample the mapped signals of the VCD or FST file at ``path`` on the clock's falling edges."""
+    path = Path(path)
+    if path.suffix.lower() == ".fst":
+        scale, names, load = _fst(path)
+    else:
+        scale, names, load = _vcd(path)
+    wanted = _resolve(path, names, mapping)
+    changes = load({key for key, _ in wanted.values()})
+    return _sample(path, scale, wanted, changes, mapping)
+
+
+def _resolve(path: Path, names: dict[str, tuple[object, int]], mapping: dict[str, str]
+             ) -> dict[str, tuple[object, int]]:  # fmt: skip
+    wanted: dict[str, tuple[object, int]] = {}
+    for role, name in mapping.items():
+        if name in names:
+            wanted[role] = names[name]
+            continue
+        hits = [full for full in names if full.endswith("." + name) or full == name]
+        if len(hits) != 1:
+            why = "several signals" if hits else "no signal"
+            raise VcdError(f"{path}: {why} called {name!r} (for {role})")
+        wanted[role] = names[hits[0]]
+    return wanted
+
+
+def _vcd(path: Path) -> tuple[float, dict[str, tuple[object, int]], Callable[[set[object]], Changes]]:
+    text = path.read_text(encoding="utf-8", errors="replace")
     head, sep, body = text.partition("$enddefinitions")
     if not sep:
         raise VcdError(f"{path}: not a VCD file (no $enddefinitions)")
@@ -63,7 +93,7 @@ def read(path: str | Path, mapping: dict[str, str]) -> Pins:
     if m:
         scale = int(m.group(1)) * _UNITS[m.group(2)]
     scope: list[str] = []
-    by_name: dict[str, tuple[str, int]] = {}
+    names: dict[str, tuple[object, int]] = {}
     tokens = head.split()
     i = 0
     while i < len(tokens):
@@ -76,42 +106,73 @@ def read(path: str | Path, mapping: dict[str, str]) -> Pins:
             i += 1
         elif tok == "$var":
             size, code, name = int(tokens[i + 2]), tokens[i + 3], tokens[i + 4]
-            by_name[".".join([*scope, name])] = (code, size)
+            names[".".join([*scope, name])] = (code, size)
             i += 5
         else:
             i += 1
-    wanted: dict[str, tuple[str, int]] = {}
-    for role, name in mapping.items():
-        if name in by_name:
-            wanted[role] = by_name[name]
-            continue
-        hits = [full for full in by_name if full.endswith("." + name) or full == name]
-        if len(hits) != 1:
-            why = "several signals" if hits else "no signal"
-            raise VcdError(f"{path}: {why} called {name!r} (for {role})")
-        wanted[role] = by_name[hits[0]]
-    codes = {code for code, _ in wanted.values()}
-    changes: dict[str, tuple[list[int], list[int]]] = {c: ([], []) for c in codes}
-    now = 0
-    body_tokens = body.split()
-    j = 0
-    while j < len(body_tokens):
-        tok = body_tokens[j]
-        c0 = tok[0]
-        if c0 == "#":
-            now = int(tok[1:])
-        elif c0 in "bBrR":
-            code = body_tokens[j + 1]
-            if code in changes:
-                changes[code][0].append(now)
-                changes[code][1].append(_value(tok[1:]) if c0 in "bB" else int(float(tok[1:])))
+
+    def load(codes: set[object]) -> Changes:
+        changes: Changes = {c: ([], []) for c in codes}
+        now = 0
+        body_tokens = body.split()
+        j = 0
+        while j < len(body_tokens):
+            tok = body_tokens[j]
+            c0 = tok[0]
+            if c0 == "#":
+                now = int(tok[1:])
+            elif c0 in "bBrR":
+                code = body_tokens[j + 1]
+                if code in changes:
+                    changes[code][0].append(now)
+                    changes[code][1].append(_value(tok[1:]) if c0 in "bB" else int(float(tok[1:])))
+                j += 1
+            elif c0 in "01xXzZuU":
+                code = tok[1:]
+                if code in changes:
+                    changes[code][0].append(now)
+                    changes[code][1].append(1 if c0 == "1" else 0)
             j += 1
-        elif c0 in "01xXzZuU":
-            code = tok[1:]
-            if code in changes:
-                changes[code][0].append(now)
-                changes[code][1].append(1 if c0 == "1" else 0)
-        j += 1
+        return changes
+
+    return scale, names, load
+
+
+def _fst(path: Path) -> tuple[float, dict[str, tuple[object, int]], Callable[[set[object]], Changes]]:
+    """FST through pylibfst (the picture extra), the reader of the FST format's own library."""
+    try:
+        import pylibfst
+    except ImportError:
+        raise VcdError("reading FST needs the PyPI package 'pylibfst' "
+                       "(pip install 'synccore[picture]'), or write a VCD instead") from None
+    lib = pylibfst.lib
+    handle = lib.fstReaderOpen(str(path).encode())
+    if handle == pylibfst.ffi.NULL:
+        raise VcdError(f"{path}: not an FST file")
+    scale = 10.0 ** int(lib.fstReaderGetTimescale(handle))
+    _, signals = pylibfst.get_scopes_signals2(handle)
+    names = {re.sub(r"\s*\[[^]]*\]$", "", name): (sig.handle, int(sig.length))
+             for name, sig in signals.by_name.items()}  # fmt: skip
+
+    def load(codes: set[object]) -> Changes:
+        changes: Changes = {c: ([], []) for c in codes}
+        for code in codes:
+            lib.fstReaderSetFacProcessMask(handle, code)
+
+        def seen(_data: object, time: int, facidx: int, value: object) -> None:
+            if facidx in changes:
+                changes[facidx][0].append(int(time))
+                changes[facidx][1].append(_value(pylibfst.string(value)))
+
+        pylibfst.fstReaderIterBlocks(handle, seen)
+        lib.fstReaderClose(handle)
+        return changes
+
+    return scale, names, load
+
+
+def _sample(path: Path, scale: float, wanted: dict[str, tuple[object, int]], changes: Changes,
+            mapping: dict[str, str]) -> Pins:  # fmt: skip
     clk_times, clk_vals = changes[wanted["clk"][0]]
     t = np.array(clk_times, dtype=np.int64)
     v = np.array(clk_vals, dtype=np.int64)

@@ -109,3 +109,21 @@ def test_map_errors() -> None:
         parse_map("clk=a,hsync=b")
     with pytest.raises(VcdError, match=r"^unknown pin 'hs' in the mapping; choose from clk, hsync"):
         parse_map("clk=a,hs=b,vsync=c")
+
+
+@pytest.mark.sim
+def test_icarus_fst_read(tmp_path: Path, need_program: Callable[[str], str]) -> None:
+    """The same design dumped as FST (vvp -fst) reads the same."""
+    pytest.importorskip("pylibfst")
+    need_program("iverilog")
+    (tmp_path / "bench.v").write_text(DESIGN.replace("run.vcd", "run.fst"))
+    subprocess.run(["iverilog", "-o", "bench.vvp", "bench.v"], cwd=tmp_path, check=True)
+    subprocess.run(["vvp", "-n", "bench.vvp", "-fst"], cwd=tmp_path, check=True, capture_output=True)
+    pins = read(tmp_path / "run.fst", parse_map(MAP))
+    assert pins.period_s == pytest.approx(10e-9)
+    assert pins.bits == (2, 2, 1)
+    mon = watch(pins)
+    assert mon.problems == []
+    assert (mon.line_cycles, mon.lines_per_frame) == (54, 37)
+    assert mon.image is not None
+    assert np.array_equal(np.asarray(mon.image), np.asarray(_expected()))
