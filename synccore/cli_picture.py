@@ -23,9 +23,10 @@ MONITOR_CAUTION = (
 @click.command(name="view")
 @click.argument("spec", required=False, type=click.Path(dir_okay=False))
 @click.option("--sim", "engine", default="icarus", show_default=True,
-              type=click.Choice(("icarus", "ghdl", "verilator", "builtin")),
-              help="Engine running the first-light design; builtin computes the pins from "
-                   "the timing model without HDL.")
+              type=click.Choice(("icarus", "ghdl", "verilator", "builtin", "model")),
+              help="Engine running the first-light design: a simulator; builtin, its Amaranth "
+                   "model in Amaranth's simulator; model, the pins computed from the timing "
+                   "model (quickest, no HDL).")
 @click.option("--pattern", default="bars", show_default=True,
               type=click.Choice(("bars", "grid", "gradient", "checker", "edges")))
 @click.option("--out", "-o", "out_png", type=click.Path(dir_okay=False),

@@ -7,9 +7,11 @@ file after the run and never wakes per cycle.  The simulators run directly
 (no cocotb): ``iverilog``/``vvp``, ``ghdl``, and Verilator's ``--binary``
 (built once per content hash in the synccore cache, as its builds are slow).
 
-The ``builtin`` engine runs no HDL: it computes the pins from the timing
-model (the same numbers :func:`synccore.model.Timing.outputs_at` uses) and the
-pattern's Python definition, for machines without a simulator.
+Two engines need no HDL simulator: ``builtin`` simulates the Amaranth model of
+the design (:mod:`synccore.amaranth_picture`) in Amaranth's simulator, and
+``model`` computes the pins straight from the timing model (the same numbers
+:func:`synccore.model.Timing.outputs_at` uses) and the pattern's Python
+definition, which is the quickest for large modes.
 """
 
 from __future__ import annotations
@@ -33,7 +35,7 @@ from .simulate import cache_dir
 from .spec import Spec
 from .tools import INSTALL_HINT, find
 
-VIEW_ENGINES = ("icarus", "ghdl", "verilator", "builtin")
+VIEW_ENGINES = ("icarus", "ghdl", "verilator", "builtin", "model")
 BENCH = "synccore_view"
 RESET_CYCLES = 4
 CLOCK_NS = 10
@@ -122,8 +124,17 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
     if engine not in VIEW_ENGINES:
         raise ValueError(f"unknown engine {engine!r}; choose from {', '.join(VIEW_ENGINES)}")
     n = cycles or cycles_needed(spec)
-    if engine == "builtin":
+    bits = (spec.color.red, spec.color.green, spec.color.blue)
+    period_s = float(1 / spec.pixel_clock_hz)
+    if engine == "model":
         return model_pins(spec, pattern, n)
+    if engine == "builtin":
+        try:
+            from .amaranth_picture import run_picture
+        except ImportError:
+            raise ViewError("engine 'builtin' needs Amaranth: install the PyPI package 'amaranth' "
+                            "(pip install 'synccore[amaranth]'), or use --sim model") from None
+        return read_screen(run_picture(spec, pattern, n), period_s=period_s, bits=bits)
     tool = find(engine)
     if tool is None:
         raise ViewError(f"simulator {engine!r} not found: {INSTALL_HINT[engine]}")
@@ -158,8 +169,7 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
         _run([str(binary), f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir, tool.env)
     if not screen.is_file():
         raise ViewError(f"{engine}: the bench wrote no {screen.name}")
-    return read_screen(screen.read_text(), period_s=float(1 / spec.pixel_clock_hz),
-                       bits=(spec.color.red, spec.color.green, spec.color.blue))  # fmt: skip
+    return read_screen(screen.read_text(), period_s=period_s, bits=bits)
 
 
 def read_screen(text: str, *, period_s: float, bits: tuple[int, int, int]) -> Pins:

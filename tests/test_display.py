@@ -145,13 +145,13 @@ def test_view_cli_builtin(tmp_path: Path) -> None:
     spec = tmp_path / "vga.yaml"
     spec.write_text('name: vga\nstandard: "DMT 0x04"\ncolor: {red: 3, green: 3, blue: 2}\n')
     out = tmp_path / "v.png"
-    result = CliRunner().invoke(main, ["view", str(spec), "--sim", "builtin", "--pattern", "edges",
+    result = CliRunner().invoke(main, ["view", str(spec), "--sim", "model", "--pattern", "edges",
                                        "-o", str(out)])  # fmt: skip
     assert result.exit_code == 0, result.output
     assert "640x480@60 (DMT 0x04" in result.output
     assert np.array_equal(np.asarray(Image.open(out).convert("RGB")),
                           np.asarray(expected_image("edges", 640, 480)))  # fmt: skip
-    result = CliRunner().invoke(main, ["view", str(spec), "--sim", "builtin",
+    result = CliRunner().invoke(main, ["view", str(spec), "--sim", "model",
                                        "--monitor-range", "40-83kHz,56-76Hz", "-o", str(out)])  # fmt: skip
     assert result.exit_code == 1
     assert "PROBLEM line rate 31.469 kHz is outside the monitor's 40-83 kHz" in result.output

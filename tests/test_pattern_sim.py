@@ -62,6 +62,7 @@ def _check(spec_text: str, pattern: str, engine: str, tmp_path: Path) -> None:
     mon = watch(pins)
     assert mon.problems == [], mon.problems
     assert mon.image is not None
+    tmp_path.mkdir(parents=True, exist_ok=True)
     out = tmp_path / "view.png"
     mon.image.save(out)
     got = np.asarray(Image.open(out).convert("RGB"))
@@ -78,6 +79,16 @@ def test_png_equals_definition(engine: str, pattern: str, tmp_path: Path,
                                need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
     need_tool(engine)
     _check(SMALL, pattern, engine, tmp_path)
+
+
+@pytest.mark.parametrize("pattern", ["bars", "grid", "edges", "checker"])
+@pytest.mark.parametrize("engine", ["builtin", "model"])
+def test_png_without_hdl_simulator(engine: str, pattern: str, tmp_path: Path) -> None:
+    """builtin: the Amaranth model of the design; model: the pins from the timing model."""
+    if engine == "builtin":
+        pytest.importorskip("amaranth")
+    _check(SMALL, pattern, engine, tmp_path)
+    _check(SMALL + "core: {lead: 3, clock_enable: true}\n", pattern, engine, tmp_path / "lead3")
 
 
 @pytest.mark.sim

@@ -36,11 +36,13 @@ def test_verify_scaled(text: str, tmp_path: Path, need_tool: Callable[[str], Too
     assert rows["y_range"].want == f"0..{(v - 1) // s}"
 
 
-@pytest.mark.sim
-@pytest.mark.parametrize("engine", ["icarus", "ghdl"])
+@pytest.mark.parametrize("engine", ["icarus", "ghdl", "builtin"])
 def test_scaled_picture(engine: str, tmp_path: Path, need_tool: Callable[[str], Tool]) -> None:
     """A 64x32 picture on a 128x64 signal: each picture pixel covers 2x2 signal pixels."""
-    need_tool(engine)
+    if engine == "builtin":
+        pytest.importorskip("amaranth")
+    else:
+        need_tool(engine)
     text = SMALL.replace("active: 100", "active: 128").replace("active: 50", "active: 64")
     spec = synccore.loads(text + "core: {scale: 2, lead: 1}\n")
     mon = watch(simulate(spec, "grid", engine=engine, work_dir=tmp_path))
