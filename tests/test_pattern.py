@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 from collections.abc import Callable
 from pathlib import Path
 
@@ -16,6 +17,7 @@ from synccore.pattern import PATTERNS, bar_bounds, levels, pattern_problems
 from synccore.spec import Color
 from synccore.tools import Tool
 from tests import timings
+from tests.conftest import EXAMPLES
 from tests.hdl import GHDL_WARNINGS, run
 
 BASE = timings.DMT_640x480
@@ -72,7 +74,8 @@ def test_alignment_follows_the_lead() -> None:
         c = pattern_context(spec, "bars")
         assert (c.sync_delay, c.colour_delay) == (sync_delay, colour_delay)
         top = pattern_artifacts(spec, "bars")[2].text
-        assert f"lag the core's syncs by {1 + sync_delay} cycles" in top
+        lag = "1 cycle;" if sync_delay == 0 else "2 cycles;"
+        assert f"lag the core's syncs by {lag}" in top
 
 
 def test_header_cautions_and_determinism() -> None:
@@ -132,3 +135,20 @@ def test_build_pattern_cli(tmp_path: Path, write_spec) -> None:  # type: ignore[
     assert result.exit_code == 2
     assert "needs horizontal.active ≥ 32" in result.output
     assert not (tmp_path / "t").exists()
+
+
+GOLDEN = Path(__file__).parent / "golden"
+_PICTURE_EXAMPLES = [p for p in EXAMPLES if not pattern_problems(synccore.load(p))]
+
+
+@pytest.mark.parametrize("example", _PICTURE_EXAMPLES, ids=[p.stem for p in _PICTURE_EXAMPLES])
+def test_golden_first_light(example: Path) -> None:
+    """Golden pattern generator and top level per example (refresh: SYNCCORE_UPDATE_GOLDEN=1)."""
+    spec = synccore.load(example)
+    pattern = PATTERNS[_PICTURE_EXAMPLES.index(example) % len(PATTERNS)]  # one pattern per example
+    for a in pattern_artifacts(spec, pattern):
+        golden = GOLDEN / (example.stem + a.name[len(spec.name):])
+        if os.environ.get("SYNCCORE_UPDATE_GOLDEN") == "1":
+            golden.write_text(a.text)
+        assert golden.is_file(), f"no golden file {golden}; run with SYNCCORE_UPDATE_GOLDEN=1"
+        assert a.text == golden.read_text(), f"{golden} differs; refresh it on purpose if intended"

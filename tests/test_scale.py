@@ -36,7 +36,8 @@ def test_verify_scaled(text: str, tmp_path: Path, need_tool: Callable[[str], Too
     assert rows["y_range"].want == f"0..{(v - 1) // s}"
 
 
-@pytest.mark.parametrize("engine", ["icarus", "ghdl", "builtin"])
+@pytest.mark.parametrize("engine", [pytest.param("icarus", marks=pytest.mark.sim),
+                                    pytest.param("ghdl", marks=pytest.mark.sim), "builtin"])
 def test_scaled_picture(engine: str, tmp_path: Path, need_tool: Callable[[str], Tool]) -> None:
     """A 64x32 picture on a 128x64 signal: each picture pixel covers 2x2 signal pixels."""
     if engine == "builtin":

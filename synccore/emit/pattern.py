@@ -114,7 +114,8 @@ def _alignment_lines(c: PatternContext) -> list[str]:
                      f"{c.colour_delay} cycles here to meet de.")  # fmt: skip
     elif lead:
         lines.append("core.lead = 1: the colour arrives with de; nothing is delayed.")
-    lines.append(f"The pins lag the core's syncs by {c.latency} cycles; all pins move together.")
+    cycles = f"{c.latency} cycle{'s' if c.latency != 1 else ''}"
+    lines.append(f"The pins lag the core's syncs by {cycles}; all pins move together.")
     return lines
 
 
