@@ -14,7 +14,8 @@ It does what a monitor does with the pins of :class:`synccore.viewsim.Pins`:
    (line period / pixels per line), as a monitor's sampling clock would; with
    no mode, it takes the picture where de is high;
 5. checks what a monitor would trip on: rates outside the user's range, a de
-   region not of the size or place the syncs imply, jitter.
+   region not of the size or place the syncs imply, jitter (line or frame
+   period, sync width, or where de starts after vsync, between frames).
 
 The vsync leading edge is expected together with an hsync leading edge, as in
 DMT and CTA-861 timings; it is attributed to the first hsync leading edge at or
@@ -234,6 +235,8 @@ def _finish(mon: Monitor, pins: Pins, mode: Mode | None, hp: Pulses, vp: Pulses 
     if offset:
         mon.notes.append(f"vsync leading edge comes {offset} clocks before the hsync leading edge of "
                          "its line; DMT and CTA-861 put them together")  # fmt: skip
+    if pins.de is not None:
+        _de_jitter(mon, pins.de, vp)
     if mode is not None:
         _sample_mode(mon, pins, mode, hp, j0)
     elif pins.de is not None:
@@ -241,6 +244,20 @@ def _finish(mon: Monitor, pins: Pins, mode: Mode | None, hp: Pulses, vp: Pulses 
     else:
         mon.problems.append("no standard mode and no de: cannot place the picture")
     return mon
+
+
+def _de_jitter(mon: Monitor, de: np.ndarray, vp: Pulses) -> None:
+    """The picture must start at the same place after every vsync leading edge."""
+    rises = np.flatnonzero(np.diff(de.astype(np.int8)) == 1) + 1
+    edges = [int(e) for e in vp.leading]
+    offsets = []
+    for e, nxt in zip(edges, edges[1:] + [len(de)], strict=True):
+        after = rises[(rises > e) & (rises < nxt)]
+        if len(after) and (nxt < len(de) or len(after) > 1):
+            offsets.append(int(after[0]) - e)
+    if len(set(offsets)) > 1:
+        mon.problems.append(f"jitter: de starts {min(offsets)} to {max(offsets)} clocks after the "
+                            "vsync leading edge in different frames")  # fmt: skip
 
 
 def _sample_mode(mon: Monitor, pins: Pins, mode: Mode, hp: Pulses, j0: int) -> None:

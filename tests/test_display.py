@@ -155,3 +155,21 @@ def test_view_cli_builtin(tmp_path: Path) -> None:
                                        "--monitor-range", "40-83kHz,56-76Hz", "-o", str(out)])  # fmt: skip
     assert result.exit_code == 1
     assert "PROBLEM line rate 31.469 kHz is outside the monitor's 40-83 kHz" in result.output
+
+
+def test_frame_to_frame_de_jitter_is_caught() -> None:
+    """Syncs steady, but the picture of the second full frame starts one clock late."""
+    t = Timing(VGA)
+    cycles = (490 + 2 * 525 + 3) * 800
+    pins = model_pins(VGA, "bars", cycles)
+    second = (490 + 525) * 800 + 640  # a vsync edge; the picture after it moves by one clock
+    de = pins.de.copy()
+    de[second:] = np.concatenate([[0], de[second:-1]])
+    mon = watch(replace(pins, de=de))
+    assert t.frame_cycles == 420000
+    # DMT 640x480: vsync begins on line 490 at the hsync leading edge (column 640 + 16); the
+    # next picture begins on line 525 = 0 of the next frame: (525 - 490) * 800 - 656 clocks later.
+    first = (525 - 490) * 800 - 656
+    assert f"jitter: de starts {first} to {first + 1} clocks after the vsync leading edge in " \
+        "different frames" in mon.problems, mon.problems
+    assert watch(pins).problems == []
