@@ -117,6 +117,9 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
         print_plan(plan, console)
     for path in written:
         console.print(f"wrote {path}")
+    if pattern is not None:
+        console.print(f"first-light design: synthesise {s.name}_top (pattern {pattern}); "
+                      f"see it first with `synccore view {spec} --pattern {pattern}`")  # fmt: skip
     console.print(HARDWARE_CAUTION, style="dim")
     if then_verify:
         _run_verify(s, engines=None, frames=2, waves=False, work_dir=None, console=console)

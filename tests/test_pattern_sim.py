@@ -120,3 +120,21 @@ def test_standard_mode_on_icarus_is_named_and_pictured(tmp_path: Path,
     assert mon.placed_by.startswith("the syncs")
     assert mon.image is not None
     assert np.array_equal(np.asarray(mon.image), np.asarray(expected_image("edges", 640, 480)))
+
+
+@pytest.mark.sim
+def test_view_cli_on_ghdl(tmp_path: Path, need_tool: Callable[[str], Tool]) -> None:
+    from click.testing import CliRunner
+
+    from synccore.cli import main
+
+    need_tool("ghdl")
+    spec = tmp_path / "small.yaml"
+    spec.write_text(SMALL)
+    out = tmp_path / "seen.png"
+    result = CliRunner().invoke(main, ["view", str(spec), "--sim", "ghdl", "--pattern", "grid",
+                                       "-o", str(out), "--work-dir", str(tmp_path / "run")])  # fmt: skip
+    assert result.exit_code == 0, result.output
+    assert "no standard mode" in result.output and "75 ohm" in result.output
+    got = np.asarray(Image.open(out).convert("RGB"))
+    assert np.array_equal(got, np.asarray(expected_image("grid", 100, 50)))
