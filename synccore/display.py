@@ -303,8 +303,13 @@ def _de_mismatch(mon: Monitor, pins: Pins, mode: Mode, hp: Pulses, first_line: i
             if start != want:
                 msg += (f": de starts {start} clocks after the hsync leading edge, the mode's sync + "
                         f"back porch is {want} (picture shifted by {start - want} pixels)")  # fmt: skip
+            width = int(np.argmin(run[start:])) if not run[start:].all() else len(run) - start
+            if width != h.active:
+                msg += f"; de is {width} pixels wide, the mode has {h.active}"
     if len(rows) and rows[0] != 0:
         msg += f"; de begins {rows[0]} lines late"
+    if len(rows) and len(rows) != v.active and rows[0] == 0:
+        msg += f"; de is high on {len(rows)} of the mode's {v.active} lines"
     if len(rows) == 0:
         msg += "; de is low throughout"
     mon.problems.append(msg)

@@ -173,3 +173,15 @@ def test_frame_to_frame_de_jitter_is_caught() -> None:
     assert f"jitter: de starts {first} to {first + 1} clocks after the vsync leading edge in " \
         "different frames" in mon.problems, mon.problems
     assert watch(pins).problems == []
+
+
+def test_de_region_of_the_wrong_size_is_caught() -> None:
+    """Same totals and syncs as DMT 640x480, but only 638 active pixels and 478 active lines."""
+    bad = replace(VGA, horizontal=Axis(638, 18, 96, 48, "negative"),
+                  vertical=Axis(478, 12, 2, 33, "negative"))  # fmt: skip
+    mon = watch(model_pins(bad, "bars", (490 + 525 + 3) * 800))
+    assert mon.mode is not None
+    assert len(mon.problems) == 1
+    assert mon.problems[0].startswith("de region does not match the 640x480 picture the syncs imply")
+    assert "de is 638 pixels wide, the mode has 640" in mon.problems[0]
+    assert "de is high on 478 of the mode's 480 lines" in mon.problems[0]
