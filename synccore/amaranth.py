@@ -89,11 +89,11 @@ class SyncCore(wiring.Component):  # type: ignore[misc]
                 with m.Elif(v_pos == t.v_sync_end):
                     m.d.sync += self.vsync.eq(1 - on_v)
             with m.If(h_lead < t.h_active):
-                m.d.sync += self.x.eq(h_lead * t.ppc)
+                m.d.sync += self.x.eq((h_lead * t.ppc) >> t.scale_shift)
             with m.Else():
                 m.d.sync += self.x.eq(0)
             with m.If(v_lead < t.v_active):
-                m.d.sync += self.y.eq(v_lead)
+                m.d.sync += self.y.eq(v_lead >> t.scale_shift)
             with m.Else():
                 m.d.sync += self.y.eq(0)
         return m
@@ -139,8 +139,11 @@ class _Harness(Elaboratable):  # type: ignore[misc]
         line_starts, frame_starts = Signal(16), Signal(16)
         with m.If(advance):
             m.d.sync += adv.eq(adv + 1)
-            steps = (x_d != prev_x + t.ppc) | (y_d != prev_y)
-            with m.If((adv > lead + 1) & core.de & prev_de & steps):
+            if t.x_step:
+                x_bad = x_d != prev_x + t.x_step
+            else:  # scaled: x holds for a few cycles, then grows by one
+                x_bad = (x_d != prev_x) & (x_d != prev_x + 1)
+            with m.If((adv > lead + 1) & core.de & prev_de & (x_bad | (y_d != prev_y))):
                 m.d.sync += step_faults.eq(step_faults + 1)
             m.d.sync += [prev_de.eq(core.de), prev_x.eq(x_d), prev_y.eq(y_d)]
             with m.If(core.de):

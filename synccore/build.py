@@ -64,6 +64,18 @@ def testbench_artifacts(spec: Spec) -> list[Artifact]:
     ]
 
 
+def pattern_artifacts(spec: Spec, pattern: str) -> list[Artifact]:
+    """The test-pattern generator and the first-light top level, in every target language."""
+    from .emit.pattern import render_pattern, render_top
+
+    return [
+        Artifact(f"{spec.name}_pattern.v", render_pattern(spec, pattern, "verilog")),
+        Artifact(f"{spec.name}_pattern.vhd", render_pattern(spec, pattern, "vhdl")),
+        Artifact(f"{spec.name}_top.v", render_top(spec, pattern, "verilog")),
+        Artifact(f"{spec.name}_top.vhd", render_top(spec, pattern, "vhdl")),
+    ]
+
+
 def _generated_by_us(path: Path) -> bool:
     try:
         with path.open("r", encoding="utf-8", errors="replace") as f:

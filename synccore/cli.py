@@ -11,11 +11,12 @@ from rich.console import Console
 from rich.table import Table
 
 from ._version import __version__
-from .build import core_artifacts, testbench_artifacts, write_artifacts
+from .build import core_artifacts, pattern_artifacts, testbench_artifacts, write_artifacts
 from .cli_clock import board_options, build_clock_artifacts, clock, print_plan
 from .errors import SpecError
 from .model import Timing
 from .modeline import format_line
+from .pattern import PATTERNS, pattern_problems
 from .report import figures, options, timing_table
 from .schema import json_schema
 from .spec import Spec, load
@@ -89,8 +90,12 @@ def main() -> None:
               help="Also write self-checking test benches OUT/<name>_tb.v and OUT/<name>_tb.vhd.")
 @click.option("--verify", "then_verify", is_flag=True,
               help="Then run the core in every simulator found and measure it (see `verify`).")
+@click.option("--pattern", type=click.Choice(PATTERNS), default=None,
+              help="Also write a test-pattern generator and a first-light top level "
+                   "(OUT/<name>_pattern.*, OUT/<name>_top.*).")
 def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: str | None,
-          family: str | None, no_pll: bool, with_testbench: bool, then_verify: bool) -> None:  # fmt: skip
+          family: str | None, no_pll: bool, with_testbench: bool, then_verify: bool,
+          pattern: str | None) -> None:  # fmt: skip
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = _load(spec)
     console = _console()
@@ -99,6 +104,11 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
     artifacts = core_artifacts(s)
     if with_testbench:
         artifacts += testbench_artifacts(s)
+    if pattern is not None:
+        problems = pattern_problems(s)
+        if problems:
+            _fail_line(f"{s.source}: {problems[0]}")
+        artifacts += pattern_artifacts(s, pattern)
     plan = None
     try:
         if with_clock:
@@ -112,6 +122,9 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
         print_plan(plan, console)
     for path in written:
         console.print(f"wrote {path}")
+    if pattern is not None:
+        console.print(f"first-light design: synthesise {s.name}_top (pattern {pattern}); "
+                      f"see it first with `synccore view {spec} --pattern {pattern}`")  # fmt: skip
     console.print(HARDWARE_CAUTION, style="dim")
     if then_verify:
         _run_verify(s, engines=None, frames=2, waves=False, work_dir=None, console=console)
@@ -121,13 +134,23 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
 @click.argument("spec", type=click.Path(dir_okay=False))
 @click.option("--modeline", "as_modeline", is_flag=True,
               help="Print the timing as one X.Org modeline instead of the summary.")
-def show(spec: str, as_modeline: bool) -> None:
-    """Validate SPEC and print its timing summary; writes nothing."""
+@click.option("--diagram", type=click.Path(dir_okay=False),
+              help="Also draw the horizontal and vertical timing to scale into this .svg or .png.")
+def show(spec: str, as_modeline: bool, diagram: str | None) -> None:
+    """Validate SPEC and print its timing summary; writes nothing unless --diagram is given."""
     s = _load(spec)
+    if diagram is not None:
+        from .diagram import draw
+
+        if Path(diagram).suffix.lower() not in (".svg", ".png"):
+            _fail_line(f"--diagram must name a .svg or .png file, got {diagram!r}")
+        draw(s, diagram)
     if as_modeline:
         click.echo(format_line(s.name, s.pixel_clock_hz, s.horizontal, s.vertical))
         return
     print_summary(s, _console())
+    if diagram is not None:
+        _console().print(f"wrote {diagram}")
 
 
 @main.command()
@@ -233,3 +256,8 @@ def verify_command(spec: str, sims: str | None, frames: int, waves: bool,
 
 
 main.add_command(clock)
+
+# The picture before the board: simulated monitor.
+from .cli_picture import view_command  # noqa: E402
+
+main.add_command(view_command)

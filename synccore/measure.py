@@ -214,7 +214,8 @@ def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
         lasts = {by_adv[e].x_last for _, e in runs}
         found["x_range"].add(f"{min(firsts)}..{max(lasts)}" if len(firsts) == 1 and len(lasts) == 1
                              else f"{sorted(firsts)}..{sorted(lasts)}")  # fmt: skip
-        steady = rows == list(range(rows[0], rows[0] + len(rows)))
+        s = t.scale_shift  # with core.scale each row number repeats 2**s times
+        steady = rows == [((rows[0] << s) + i) >> s for i in range(len(rows))]
         found["y_range"].add(f"{rows[0]}..{rows[-1]}" if steady else f"irregular {rows[:6]}")
         found["line_start"].add((by_adv[stop].line_starts - by_adv[start].line_starts) % 65536)
         found["frame_start"].add((by_adv[stop].frame_starts - by_adv[start].frame_starts) % 65536)
@@ -261,8 +262,8 @@ def expected(t: Timing) -> dict[str, object]:
         "v_back": v.back_porch,
         "vsync_polarity": v.sync_polarity,
         "vsync_offset": t.v_sync_at_h * t.ppc,
-        "x_range": f"0..{h.active - t.ppc}",
-        "y_range": f"0..{v.active - 1}",
+        "x_range": f"0..{(h.active - t.ppc) >> t.scale_shift}",
+        "y_range": f"0..{(v.active - 1) >> t.scale_shift}",
         "xy_steps": 0,
         "line_start": v.active,
         "line_start_aligned": "yes",

@@ -128,17 +128,32 @@ class Timing:
         return bits_for(self.v_total - 1)
 
     @property
+    def scale_shift(self) -> int:
+        """x and y are divided by core.scale: a right shift by this many bits."""
+        return self.spec.core.scale.bit_length() - 1
+
+    @property
     def x_width(self) -> int:
-        return bits_for(self.spec.horizontal.active - 1)
+        return bits_for((self.spec.horizontal.active - 1) >> self.scale_shift)
 
     @property
     def y_width(self) -> int:
-        return bits_for(self.v_active - 1)
+        return bits_for((self.v_active - 1) >> self.scale_shift)
 
     @property
     def x_shift(self) -> int:
-        """x is the cycle's column times pixels_per_clock: a shift by this many bits."""
-        return self.ppc.bit_length() - 1
+        """Zero bits appended below the cycle column: x = (column * pixels_per_clock) >> scale."""
+        return max(0, self.ppc.bit_length() - 1 - self.scale_shift)
+
+    @property
+    def x_count_lsb(self) -> int:
+        """Lowest bit of the cycle column that x shows (when scale exceeds pixels_per_clock)."""
+        return max(0, self.scale_shift - (self.ppc.bit_length() - 1))
+
+    @property
+    def x_step(self) -> int:
+        """How much x grows per cycle inside a de run; 0: it holds for some cycles, then grows by 1."""
+        return self.ppc >> self.scale_shift
 
     @property
     def lead_reset(self) -> tuple[int, int]:
@@ -197,8 +212,8 @@ class Timing:
             de=int(active_h and active_v),
             hblank=int(not active_h),
             vblank=int(not active_v),
-            x=(hl * self.ppc) if hl < self.h_active else 0,
-            y=vl if vl < self.v_active else 0,
+            x=((hl * self.ppc) >> self.scale_shift) if hl < self.h_active else 0,
+            y=(vl >> self.scale_shift) if vl < self.v_active else 0,
             line_start=int(h == 0 and active_v),
             frame_start=int(h == 0 and v == 0),
         )

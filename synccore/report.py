@@ -54,6 +54,7 @@ def options(t: Timing) -> list[tuple[str, str]]:
         ("reset", c.reset),
         ("lead of x/y", f"{c.lead} cycle{'s' if c.lead != 1 else ''}"),
         ("vsync edges", align),
+        *([("scale of x/y", f"divided by {c.scale}")] if c.scale > 1 else []),
     ]
 
 

@@ -31,6 +31,7 @@ POLARITIES = ("positive", "negative")
 RESETS = ("sync_high", "sync_low", "async_high", "async_low")
 VSYNC_ALIGNS = ("hsync", "line")
 PIXELS_PER_CLOCK = (1, 2, 4, 8)
+SCALES = (1, 2, 4)
 
 BASE_PORTS = (
     "clk", "rst", "rst_n", "ce", "hsync", "vsync", "de", "hblank", "vblank",
@@ -80,6 +81,9 @@ CORE_FIELDS = (
     Field("vsync_align", "choice",
           "hsync: vsync edges coincide with the hsync leading edge; line: with the line start",
           required=False, default="hsync", choices=VSYNC_ALIGNS),
+    Field("scale", "choice",
+          "divide x and y by this, e.g. 2 for a 320x240 picture on a 640x480 signal",
+          required=False, default=1, choices=SCALES),
 )  # fmt: skip
 
 FORMULA_METHODS = ("cvt", "cvt-rb", "cvt-rb2", "gtf")
@@ -118,6 +122,15 @@ BOARD_FIELDS = (
           required=False, choices=FAMILY_KEYS),
 )  # fmt: skip
 
+COLOR_FIELDS = (
+    Field("red", "int", "bits of the red channel on the colour pins", required=False,
+          default=4, minimum=1, maximum=8),
+    Field("green", "int", "bits of the green channel", required=False, default=4,
+          minimum=1, maximum=8),
+    Field("blue", "int", "bits of the blue channel", required=False, default=4,
+          minimum=1, maximum=8),
+)  # fmt: skip
+
 SPEC_FIELDS = (
     Field("name", "identifier", "module / entity name, legal in Verilog and VHDL"),
     Field("standard", "text", 'a library timing instead of the explicit keys: "1280x720@60", '
@@ -138,6 +151,8 @@ SPEC_FIELDS = (
     Field("ports", "section", "port naming", required=False, fields=PORT_FIELDS),
     Field("board", "section", "the board's clock, for clock planning", required=False,
           fields=BOARD_FIELDS),
+    Field("color", "section", "colour depth of the test-pattern design (build --pattern)",
+          required=False, fields=COLOR_FIELDS),
 )  # fmt: skip
 
 
@@ -169,6 +184,7 @@ class CoreOptions:
     reset: str = "sync_high"
     lead: int = 0
     vsync_align: str = "hsync"
+    scale: int = 1
 
 
 @dataclass(frozen=True)
@@ -177,6 +193,15 @@ class Board:
 
     clock_hz: Fraction | None = None
     family: str | None = None
+
+
+@dataclass(frozen=True)
+class Color:
+    """Bits per colour channel of the test-pattern design; 4-4-4 unless the spec says."""
+
+    red: int = 4
+    green: int = 4
+    blue: int = 4
 
 
 @dataclass(frozen=True)
@@ -195,6 +220,7 @@ class Spec:
     notes: tuple[str, ...] = ()
     """What the resolution step adjusted or wants the user to know, one sentence each."""
     board: Board = Board()
+    color: Color = Color()
 
 
 # ---------------------------------------------------------------- frequencies
@@ -426,6 +452,7 @@ def validate(doc: loader.Node, *, source: str = "<string>") -> Spec:
         origin=resolved.origin,
         notes=resolved.notes,
         board=Board(**values["board"]) if values["board"] else Board(),
+        color=Color(**values["color"]) if values["color"] else Color(),
     )
 
 
@@ -450,6 +477,11 @@ def _check_cross(
             if value % n:
                 out.add(_where(doc, "horizontal", key), f"horizontal.{key}",
                         f"must divide by core.pixels_per_clock = {n}, got {value}")  # fmt: skip
+    if core.scale > 1:
+        for axis, label in ((h, "horizontal"), (v, "vertical")):
+            if axis.active % core.scale:
+                out.add(_where(doc, label, "active"), f"{label}.active",
+                        f"must divide by core.scale = {core.scale}, got {axis.active}")  # fmt: skip
     frame_cycles = (h.total // n) * v.total
     if core.lead >= frame_cycles and frame_cycles > 0:
         out.add(_where(doc, "core", "lead"), "core.lead",
@@ -488,6 +520,7 @@ def to_dict(spec: Spec) -> dict[str, Any]:
         "core": vars(spec.core).copy(),
         "port_prefix": spec.port_prefix,
         "source": spec.source,
+        "color": vars(spec.color).copy(),
     }
 
 
@@ -501,4 +534,5 @@ def from_dict(data: dict[str, Any]) -> Spec:
         core=CoreOptions(**data["core"]),
         port_prefix=data["port_prefix"],
         source=data["source"],
+        color=Color(**data.get("color", {})),
     )

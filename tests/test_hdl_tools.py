@@ -24,6 +24,8 @@ CASES = {
     "huge": timings.HUGE,
     "no_back_porch": timings.NO_BACK_PORCH,
     "small_opts": timings.SMALL_ALL_OPTIONS,
+    "scaled": timings.SCALED,
+    "scaled_ppc": timings.SCALED_PPC,
     **{p.stem: p.read_text() for p in EXAMPLES},
 }
 RESET_STYLES = ["sync_high", "sync_low", "async_high", "async_low"]

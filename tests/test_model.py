@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from dataclasses import replace
 from fractions import Fraction
 
 import pytest
@@ -123,3 +124,16 @@ def test_lead_moves_only_coordinates() -> None:
 def test_fraction_clock_exact() -> None:
     t = t_of(timings.DMT_640x480)
     assert t.refresh_hz == Fraction(25_175_000, 800 * 525)
+
+
+@pytest.mark.parametrize(("text", "ppc", "scale"), [(timings.SCALED, 1, 2), (timings.SCALED_PPC, 2, 4)])
+def test_scale_divides_coordinates(text: str, ppc: int, scale: int) -> None:
+    t = t_of(text)
+    plain = synccore.timing(replace(t.spec, core=replace(t.spec.core, scale=1)))
+    for q in range(t.frame_cycles):
+        a, b = t.outputs_at(q), plain.outputs_at(q)
+        assert (a.x, a.y) == (b.x // scale, b.y // scale)
+        assert (a.hsync, a.vsync, a.de) == (b.hsync, b.vsync, b.de)
+    h, v = t.spec.horizontal.active, t.spec.vertical.active
+    assert (t.x_width, t.y_width) == ((h // scale - 1).bit_length(), (v // scale - 1).bit_length())
+    assert t.x_step == ppc // scale

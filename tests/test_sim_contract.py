@@ -23,6 +23,7 @@ CASES = {
     "tiny": timings.TINY,
     "no_back_porch": timings.NO_BACK_PORCH,
     "all_options": timings.SMALL_ALL_OPTIONS,
+    "scaled_ppc": timings.SCALED_PPC,
 }
 RUNS = [("icarus", "08"), ("ghdl", "93"), ("ghdl", "08"), ("verilator", "08")]
 

@@ -132,7 +132,23 @@ def test_core_options() -> None:
         "async_low, got 'async' (did you mean 'async_low'?)",
         "panel.yaml:9:9: core.lead: must be ≥ 0, got -1",
         "panel.yaml:10:3: core.vsync_aling: unknown key (did you mean 'vsync_align'?); "
-        "allowed here: pixels_per_clock, clock_enable, reset, lead, vsync_align",
+        "allowed here: pixels_per_clock, clock_enable, reset, lead, vsync_align, scale",
+    ]
+
+
+def test_scale_rules() -> None:
+    assert only(GOOD + "core: {scale: 3}\n") == (
+        "panel.yaml:5:15: core.scale: must be one of 1, 2, 4, got 3")
+    odd = GOOD.replace("active: 480", "active: 482")
+    assert problems(odd + "core: {scale: 4}\n") == [
+        "panel.yaml:4:22: vertical.active: must divide by core.scale = 4, got 482"]
+
+
+def test_color_rules() -> None:
+    assert problems(GOOD + "color: {red: 9, green: 0, bleu: 2}\n") == [
+        "panel.yaml:5:14: color.red: must be ≤ 8, got 9",
+        "panel.yaml:5:24: color.green: must be ≥ 1, got 0",
+        "panel.yaml:5:27: color.bleu: unknown key (did you mean 'blue'?); allowed here: red, green, blue",
     ]
 
 

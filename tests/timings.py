@@ -66,3 +66,8 @@ SMALL_ALL_OPTIONS = spec_text("small_opts", "10 MHz",
 # Made up: small raster, default options.
 SMALL = spec_text("small_mode", "5 MHz",
                   (20, 3, 4, 5, "negative"), (8, 2, 2, 3, "positive"))  # fmt: skip
+# Made up: x and y divided by core.scale (with and without several pixels per clock).
+SCALED = spec_text("scaled_mode", "5 MHz", (24, 3, 4, 5, "negative"), (8, 2, 2, 3, "positive"),
+                   core={"scale": 2})  # fmt: skip
+SCALED_PPC = spec_text("scaled_ppc", "10 MHz", (32, 4, 4, 8, "positive"), (8, 1, 1, 2, "negative"),
+                       core={"pixels_per_clock": 2, "scale": 4, "clock_enable": True})  # fmt: skip

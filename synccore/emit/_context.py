@@ -56,7 +56,11 @@ class CoreContext:
     x_from: str  # "h_pos" or "h_lead"
     y_from: str
     x_count_bits: int  # bits of the cycle counter that make up x (0: x is always 0)
-    x_shift: int  # zero bits appended to the cycle column (log2 pixels_per_clock)
+    x_shift: int  # zero bits appended to the cycle column (log2 pixels_per_clock, less the scale)
+    x_count_lsb: int  # lowest counter bit that x shows (log2 scale, less log2 pixels_per_clock)
+    y_lsb: int  # lowest line-counter bit that y shows (log2 scale)
+    scale: int
+    has_scale: bool
 
     # Most significant bit indices, so templates never compute.
     @property
@@ -77,7 +81,11 @@ class CoreContext:
 
     @property
     def x_count_msb(self) -> int:
-        return self.x_count_bits - 1
+        return self.x_count_lsb + self.x_count_bits - 1
+
+    @property
+    def y_src_msb(self) -> int:
+        return self.y_lsb + self.y_width - 1
 
 
 def build_context(t: Timing) -> CoreContext:
@@ -136,9 +144,11 @@ def build_context(t: Timing) -> CoreContext:
         Port("vblank", p + "vblank", "out", None, "1 during vertical blanking (whole lines)"),
         Port("x", p + "x", "out", t.x_width,
              "column of the pixel" + (f" ({core.lead} cycles ahead of de)" if core.lead else "")
-             + (f"; first of {t.ppc} pixels" if t.ppc > 1 else "")),
+             + (f"; first of {t.ppc} pixels" if t.ppc > 1 else "")
+             + (f"; divided by {core.scale}" if core.scale > 1 else "")),
         Port("y", p + "y", "out", t.y_width,
-             "row of the pixel" + (f" ({core.lead} cycles ahead of de)" if core.lead else "")),
+             "row of the pixel" + (f" ({core.lead} cycles ahead of de)" if core.lead else "")
+             + (f"; divided by {core.scale}" if core.scale > 1 else "")),
         Port("line_start", p + "line_start", "out", None, "1 on the first active pixel of a line"),
         Port("frame_start", p + "frame_start", "out", None,
              "1 on the first active pixel of a frame"),
@@ -162,6 +172,10 @@ def build_context(t: Timing) -> CoreContext:
         y_from="v_lead" if core.lead else "v_pos",
         x_count_bits=t.x_width - t.x_shift,
         x_shift=t.x_shift,
+        x_count_lsb=t.x_count_lsb,
+        y_lsb=t.scale_shift,
+        scale=core.scale,
+        has_scale=core.scale > 1,
     )
 
 

@@ -36,6 +36,7 @@ class HarnessContext:
     lead_last: int  # index of the last stage of the lead delay line
     check_from: int  # x/y steps are judged from this advancing edge on (lead + 1)
     ppc: int
+    x_step: int  # growth of x per cycle inside a de run; 0: holds, then grows by 1 (scaled)
     lfsr_seed: int
     event_format: str  # Verilog $fwrite format of one event line
     event_args: str  # its arguments
@@ -57,6 +58,7 @@ def harness_context(spec: Spec) -> HarnessContext:
         lead_last=spec.core.lead - 1,
         check_from=spec.core.lead + 1,
         ppc=t.ppc,
+        x_step=t.x_step,
         lfsr_seed=LFSR_SEED,
         event_format=" ".join("%0d" for _ in MONITOR_FIELDS),
         event_args=", ".join(_VERILOG_SOURCE[name] for name, _ in MONITOR_FIELDS),

@@ -57,7 +57,8 @@ def testbench_context(spec: Spec, frames: int = DEFAULT_FRAMES) -> TestbenchCont
         BenchConstant("V_SYNC_CYCLES", t.spec.vertical.sync * t.h_total, "cycles of vsync"),
         BenchConstant("FRAME_CYCLES", t.frame_cycles, "cycles per frame"),
         BenchConstant("LEAD", spec.core.lead, "cycles by which x/y lead de"),
-        BenchConstant("PIXELS_PER_CLOCK", t.ppc, "x step per cycle"),
+        BenchConstant("PIXELS_PER_CLOCK", t.ppc, "pixels per cycle"),
+        BenchConstant("SCALE", spec.core.scale, "x and y are the pixel's column and row / SCALE"),
         BenchConstant("HSYNC_ON", t.hsync_active_level, "hsync level in the pulse"),
         BenchConstant("VSYNC_ON", t.vsync_active_level, "vsync level in the pulse"),
     )  # fmt: skip

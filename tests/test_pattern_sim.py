@@ -1,0 +1,140 @@
+"""The first-light design in real simulators: the PNG equals, pixel for pixel, an image
+computed here with Pillow from the patterns' definitions (synccore/pattern.py's docstring),
+drawn independently with rectangles and lines rather than per-pixel formulas.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from pathlib import Path
+
+import numpy as np
+import pytest
+from PIL import Image, ImageDraw
+
+import synccore
+from synccore.display import watch
+from synccore.tools import Tool
+from synccore.viewsim import simulate
+
+WHITE = (255, 255, 255)
+# Bars left to right, by the definition: red for bit 0 of the bar index, green bit 1, blue bit 2.
+BAR_COLOURS = [(255 * (b & 1), 255 * (b >> 1 & 1), 255 * (b >> 2 & 1)) for b in range(8)]
+
+SMALL = (
+    "name: first_light\n"
+    "pixel_clock_hz: 2 MHz\n"
+    "horizontal: {active: 100, front_porch: 4, sync: 10, back_porch: 6, sync_polarity: negative}\n"
+    "vertical: {active: 50, front_porch: 2, sync: 2, back_porch: 4, sync_polarity: positive}\n"
+    "color: {red: 3, green: 3, blue: 2}\n"
+)  # a made-up small timing, so each simulator run takes well under a second
+
+
+def expected_image(pattern: str, w: int, h: int) -> Image.Image:
+    """The picture a pattern should give, drawn with Pillow from the definition."""
+    img = Image.new("RGB", (w, h), (0, 0, 0))
+    d = ImageDraw.Draw(img)
+    if pattern == "bars":
+        for b in range(8):
+            left = -(-b * w // 8)  # first column with 8x >= b*w
+            right = -(-(b + 1) * w // 8) - 1
+            d.rectangle([left, 0, right, h - 1], fill=BAR_COLOURS[b])
+    elif pattern == "grid":
+        for x in list(range(0, w, 16)) + [w - 1]:
+            d.line([x, 0, x, h - 1], fill=WHITE)
+        for y in list(range(0, h, 16)) + [h - 1]:
+            d.line([0, y, w - 1, y], fill=WHITE)
+    elif pattern == "edges":
+        d.rectangle([0, 0, w - 1, h - 1], outline=WHITE)
+    elif pattern == "checker":
+        for top in range(0, h, 16):
+            for left in range(0, w, 16):
+                if (top // 16 + left // 16) % 2:
+                    d.rectangle([left, top, min(left + 15, w - 1), min(top + 15, h - 1)], fill=WHITE)
+    else:
+        raise AssertionError(pattern)
+    return img
+
+
+def _check(spec_text: str, pattern: str, engine: str, tmp_path: Path) -> None:
+    spec = synccore.loads(spec_text)
+    pins = simulate(spec, pattern, engine=engine, work_dir=tmp_path)
+    mon = watch(pins)
+    assert mon.problems == [], mon.problems
+    assert mon.image is not None
+    tmp_path.mkdir(parents=True, exist_ok=True)
+    out = tmp_path / "view.png"
+    mon.image.save(out)
+    got = np.asarray(Image.open(out).convert("RGB"))
+    want = np.asarray(expected_image(pattern, spec.horizontal.active, spec.vertical.active))
+    assert got.shape == want.shape
+    diff = np.argwhere((got != want).any(axis=-1))
+    assert len(diff) == 0, f"{len(diff)} pixels differ, first at (row, col) {diff[0].tolist()}"
+
+
+@pytest.mark.sim
+@pytest.mark.parametrize("pattern", ["bars", "grid", "edges", "checker"])
+@pytest.mark.parametrize("engine", ["icarus", "ghdl"])
+def test_png_equals_definition(engine: str, pattern: str, tmp_path: Path,
+                               need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
+    need_tool(engine)
+    _check(SMALL, pattern, engine, tmp_path)
+
+
+@pytest.mark.parametrize("pattern", ["bars", "grid", "edges", "checker"])
+@pytest.mark.parametrize("engine", ["builtin", "model"])
+def test_png_without_hdl_simulator(engine: str, pattern: str, tmp_path: Path) -> None:
+    """builtin: the Amaranth model of the design; model: the pins from the timing model."""
+    if engine == "builtin":
+        pytest.importorskip("amaranth")
+    _check(SMALL, pattern, engine, tmp_path)
+    _check(SMALL + "core: {lead: 3, clock_enable: true}\n", pattern, engine, tmp_path / "lead3")
+
+
+@pytest.mark.sim
+@pytest.mark.parametrize("engine", ["icarus", "ghdl"])
+def test_lead_and_clock_enable_variants(engine: str, tmp_path: Path,
+                                        need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
+    need_tool(engine)
+    text = SMALL + "core: {lead: 3, clock_enable: true, reset: sync_low}\nports: {prefix: lcd_}\n"
+    _check(text, "bars", engine, tmp_path)
+    text = SMALL + "core: {lead: 1}\n"
+    _check(text, "edges", engine, tmp_path / "lead1")
+
+
+@pytest.mark.sim
+def test_png_on_verilator(tmp_path: Path, need_tool: Callable[[str], Tool]) -> None:
+    need_tool("verilator")
+    _check(SMALL, "bars", "verilator", tmp_path)
+
+
+@pytest.mark.sim
+def test_standard_mode_on_icarus_is_named_and_pictured(tmp_path: Path,
+                                                       need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
+    """The one larger run: DMT 640x480@60 (DMT ID 04h), placed by the syncs and the mode's porches."""
+    need_tool("icarus")
+    spec = synccore.loads('name: vga\nstandard: "DMT 0x04"\n')
+    mon = watch(simulate(spec, "edges", engine="icarus", work_dir=tmp_path))
+    assert mon.problems == []
+    assert mon.mode is not None and mon.mode.name.startswith("640x480")
+    assert mon.placed_by.startswith("the syncs")
+    assert mon.image is not None
+    assert np.array_equal(np.asarray(mon.image), np.asarray(expected_image("edges", 640, 480)))
+
+
+@pytest.mark.sim
+def test_view_cli_on_ghdl(tmp_path: Path, need_tool: Callable[[str], Tool]) -> None:
+    from click.testing import CliRunner
+
+    from synccore.cli import main
+
+    need_tool("ghdl")
+    spec = tmp_path / "small.yaml"
+    spec.write_text(SMALL)
+    out = tmp_path / "seen.png"
+    result = CliRunner().invoke(main, ["view", str(spec), "--sim", "ghdl", "--pattern", "grid",
+                                       "-o", str(out), "--work-dir", str(tmp_path / "run")])  # fmt: skip
+    assert result.exit_code == 0, result.output
+    assert "no standard mode" in result.output and "75 ohm" in result.output
+    got = np.asarray(Image.open(out).convert("RGB"))
+    assert np.array_equal(got, np.asarray(expected_image("grid", 100, 50)))
