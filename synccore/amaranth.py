@@ -154,7 +154,8 @@ class _Harness(Elaboratable):  # type: ignore[misc]
                 m.d.sync += frame_starts.eq(frame_starts + 1)
         fields = {
             "adv": adv, "hsync": core.hsync, "vsync": core.vsync, "de": core.de,
-            "frame_start": core.frame_start, "line_start": core.line_start, "x": x_d, "y": y_d,
+            "hblank": core.hblank, "vblank": core.vblank, "frame_start": core.frame_start,
+            "line_start": core.line_start, "x": x_d, "y": y_d,
             "x_last": x_last, "step_faults": step_faults, "line_starts": line_starts,
             "frame_starts": frame_starts,
         }  # fmt: skip
@@ -179,7 +180,8 @@ def run_builtin(
     async def bench(ctx: object) -> None:
         adv, done = 0, 0
         while adv < stop:
-            await ctx.changed(core.hsync, core.vsync, core.de)  # type: ignore[attr-defined]
+            await ctx.changed(core.hsync, core.vsync, core.de, core.hblank,  # type: ignore[attr-defined]
+                              core.vblank)
             word = ctx.get(harness.mon)  # type: ignore[attr-defined]
             words.append(word)
             adv = word & 0xFFFFFFFF

@@ -22,6 +22,8 @@ MONITOR_FIELDS: tuple[tuple[str, int], ...] = (
     ("hsync", 1),
     ("vsync", 1),
     ("de", 1),
+    ("hblank", 1),
+    ("vblank", 1),
     ("frame_start", 1),
     ("line_start", 1),
     ("x", 16),  # x delayed by the lead, so it lines up with de
@@ -46,6 +48,8 @@ class Event:
     hsync: int
     vsync: int
     de: int
+    hblank: int
+    vblank: int
     frame_start: int
     line_start: int
     x: int
@@ -104,17 +108,20 @@ QUANTITIES: tuple[tuple[str, str, str], ...] = (
     ("h_front", "h front porch", "px"),
     ("hsync_width", "hsync width", "px"),
     ("h_back", "h back porch", "px"),
+    ("hblank_width", "hblank width", "px"),
     ("hsync_polarity", "hsync polarity", ""),
     ("frame_total", "lines per frame", "lines"),
     ("v_active", "active lines", "lines"),
     ("v_front", "v front porch", "lines"),
     ("vsync_width", "vsync width", "lines"),
     ("v_back", "v back porch", "lines"),
+    ("vblank_width", "vblank width", "lines"),
     ("vsync_polarity", "vsync polarity", ""),
     ("vsync_offset", "vsync edge in line", "px"),
     ("x_range", "x range", ""),
     ("y_range", "y range", ""),
     ("xy_steps", "x/y step faults", ""),
+    ("de_vs_blanks", "de = not (hblank or vblank)", ""),
     ("line_start", "line_start per frame", ""),
     ("line_start_aligned", "line_start with de rise", ""),
     ("frame_start", "frame_start per frame", ""),
@@ -175,17 +182,32 @@ def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
     for s, e in hs:
         found["hsync_width"].add((e - s) * ppc)
     rises = [s for s, _ in de_runs]
-    line_total = min((b - a for a, b in zip(rises, rises[1:], strict=False)), default=0)
+    # Lines are told apart by hblank, which falls at every line start, active or not.
+    line_starts = [e for s, e in _pulses(events, "hblank", 1) if e is not None]
+    periods = [b - a for a, b in zip(line_starts, line_starts[1:], strict=False)]
+    line_total = max(set(periods), key=periods.count) if periods else 0
+    found["line_total"].update(p * ppc for p in periods)
+    for s, e in _pulses(events, "hblank", 1):
+        if e is not None and s > 0:
+            found["hblank_width"].add((e - s) * ppc)
     if line_total:
-        found["line_total"].add(line_total * ppc)
+        for s, e in _pulses(events, "vblank", 1):
+            if e is not None and s > 0:
+                found["vblank_width"].add(_lines(e - s, line_total))
+    found["de_vs_blanks"].add(
+        "yes" if all(e.de == 1 - (e.hblank | e.vblank) for e in events[1:]) else "no")  # fmt: skip
     for s, e in de_runs:
         found["h_active"].add((e - s) * ppc)
-        nxt = next((p for p in hs if p[0] >= e), None)
-        if nxt is not None and nxt[1] is not None:
-            found["h_front"].add((nxt[0] - e) * ppc)
-            back_rise = next((r for r in rises if r >= nxt[1]), None)
-            if back_rise is not None and back_rise - nxt[1] < line_total:
-                found["h_back"].add((back_rise - nxt[1]) * ppc)
+    # Porches around every hsync pulse, active line or not: from the blanking start (hblank
+    # rising) to the pulse, and from the pulse to the next line start (hblank falling).
+    blank_starts = [s for s, _ in _pulses(events, "hblank", 1) if s > 0]
+    for s, e in hs:
+        before = [b for b in blank_starts if b <= s]
+        if before and s - before[-1] < max(line_total, 1):
+            found["h_front"].add((s - before[-1]) * ppc)
+        after = [ls for ls in line_starts if ls >= e]
+        if after and after[0] - e < max(line_total, 1):
+            found["h_back"].add((after[0] - e) * ppc)
 
     # Frames: the de runs between consecutive vsync pulses.
     if line_total:
@@ -254,17 +276,20 @@ def expected(t: Timing) -> dict[str, object]:
         "h_front": h.front_porch,
         "hsync_width": h.sync,
         "h_back": h.back_porch,
+        "hblank_width": h.blanking,
         "hsync_polarity": h.sync_polarity,
         "frame_total": v.total,
         "v_active": v.active,
         "v_front": v.front_porch,
         "vsync_width": v.sync,
         "v_back": v.back_porch,
+        "vblank_width": v.blanking,
         "vsync_polarity": v.sync_polarity,
         "vsync_offset": t.v_sync_at_h * t.ppc,
         "x_range": f"0..{(h.active - t.ppc) >> t.scale_shift}",
         "y_range": f"0..{(v.active - 1) >> t.scale_shift}",
         "xy_steps": 0,
+        "de_vs_blanks": "yes",
         "line_start": v.active,
         "line_start_aligned": "yes",
         "frame_start": 1,

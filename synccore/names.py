@@ -66,7 +66,7 @@ INTERNAL_NAMES = frozenset(
     h_lead_reset v_lead_reset v_sync_at_h x_shift
     sync_on sync_off h_sync_on h_sync_off v_sync_on v_sync_off
     hsync_q vsync_q de_q hblank_q vblank_q x_q y_q line_start_q frame_start_q
-    timing
+    timing pixels_per_clock scale
     """.split()
 )
 

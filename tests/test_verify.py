@@ -89,7 +89,7 @@ MUTANTS = {
     "de one cycle late": (
         lambda v: v.replace("de <= (h_pos < H_ACTIVE) && (v_pos < V_ACTIVE);",
                             "de <= (h_pos >= 6'd1) && (h_pos <= H_ACTIVE) && (v_pos < V_ACTIVE);"),
-        ["h front porch", "h back porch", "x range"],
+        ["first de after reset", "de = not (hblank or vblank)", "x range"],
     ),
     "line_start missing": (
         lambda v: v.replace("line_start <= (h_pos == 6'd0) && (v_pos < V_ACTIVE);",

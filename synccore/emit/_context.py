@@ -61,6 +61,7 @@ class CoreContext:
     y_lsb: int  # lowest line-counter bit that y shows (log2 scale)
     scale: int
     has_scale: bool
+    ppc: int
 
     # Most significant bit indices, so templates never compute.
     @property
@@ -176,6 +177,7 @@ def build_context(t: Timing) -> CoreContext:
         y_lsb=t.scale_shift,
         scale=core.scale,
         has_scale=core.scale > 1,
+        ppc=t.ppc,
     )
 
 

@@ -68,16 +68,17 @@ def harness_context(spec: Spec) -> HarnessContext:
 
 # Harness signal behind each monitored field.
 _VERILOG_SOURCE = {
-    "adv": "adv", "hsync": "hsync", "vsync": "vsync", "de": "de", "frame_start": "frame_start",
+    "adv": "adv", "hsync": "hsync", "vsync": "vsync", "de": "de", "hblank": "hblank",
+    "vblank": "vblank", "frame_start": "frame_start",
     "line_start": "line_start", "x": "x_d", "y": "y_d", "x_last": "x_last",
     "step_faults": "step_faults", "line_starts": "line_starts", "frame_starts": "frame_starts",
 }  # fmt: skip
 _VHDL_SOURCE = {
-    "adv": "to_integer(adv)", "hsync": "as_int(hsync)", "vsync": "as_int(vsync)",
-    "de": "as_int(de)", "frame_start": "as_int(frame_start)", "line_start": "as_int(line_start)",
-    "x": "to_integer(unsigned(x_d))", "y": "to_integer(unsigned(y_d))",
-    "x_last": "to_integer(unsigned(x_last))", "step_faults": "to_integer(step_faults)",
-    "line_starts": "to_integer(line_starts)", "frame_starts": "to_integer(frame_starts)",
+    "adv": "adv", "hsync": "as_int(hsync)", "vsync": "as_int(vsync)", "de": "as_int(de)",
+    "hblank": "as_int(hblank)", "vblank": "as_int(vblank)",
+    "frame_start": "as_int(frame_start)", "line_start": "as_int(line_start)",
+    "x": "x_d", "y": "y_d", "x_last": "x_last", "step_faults": "step_faults",
+    "line_starts": "line_starts", "frame_starts": "frame_starts",
 }  # fmt: skip
 
 

@@ -65,8 +65,8 @@ architecture rtl of lcd_1366x768 is
     -- ------------------------------------------------------------------
     -- h_pos/v_pos: the position the outputs take on at the next advancing
     -- edge; column 0 of line 0 is the first active pixel of a frame.
-    signal h_pos : unsigned(10 downto 0);
-    signal v_pos : unsigned(9 downto 0);
+    signal h_pos : natural range 0 to H_LAST;
+    signal v_pos : natural range 0 to V_LAST;
 
     -- Output registers (ports of mode out cannot be read back in VHDL-93).
     signal hsync_q, vsync_q, de_q, hblank_q, vblank_q : std_logic;
@@ -80,8 +80,8 @@ begin
     begin
         if rising_edge(clk) then
             if rst = '1' then
-                h_pos <= (others => '0');
-                v_pos <= (others => '0');
+                h_pos <= 0;
+                v_pos <= 0;
                 hsync_q <= H_SYNC_OFF;
                 vsync_q <= V_SYNC_OFF;
                 de_q <= '0';
@@ -94,9 +94,9 @@ begin
             else
                 -- ---- step the position -------------------------------------
                 if h_pos = H_LAST then
-                    h_pos <= (others => '0');
+                    h_pos <= 0;
                     if v_pos = V_LAST then
-                        v_pos <= (others => '0');
+                        v_pos <= 0;
                     else
                         v_pos <= v_pos + 1;
                     end if;
@@ -147,12 +147,12 @@ begin
 
                 -- Coordinates: the column/row while active, 0 in blanking.
                 if h_pos < H_ACTIVE then
-                    x_q <= std_logic_vector(h_pos(10 downto 0));
+                    x_q <= std_logic_vector(to_unsigned(h_pos, x_q'length));
                 else
                     x_q <= (others => '0');
                 end if;
                 if v_pos < V_ACTIVE then
-                    y_q <= std_logic_vector(v_pos(9 downto 0));
+                    y_q <= std_logic_vector(to_unsigned(v_pos, y_q'length));
                 else
                     y_q <= (others => '0');
                 end if;

@@ -66,11 +66,11 @@ architecture rtl of hobby_panel is
     -- ------------------------------------------------------------------
     -- h_pos/v_pos: the position the outputs take on at the next advancing
     -- edge; column 0 of line 0 is the first active pixel of a frame.
-    signal h_pos : unsigned(9 downto 0);
-    signal v_pos : unsigned(9 downto 0);
+    signal h_pos : natural range 0 to H_LAST;
+    signal v_pos : natural range 0 to V_LAST;
     -- h_lead/v_lead run the same count ahead by the lead, for x and y.
-    signal h_lead : unsigned(9 downto 0);
-    signal v_lead : unsigned(9 downto 0);
+    signal h_lead : natural range 0 to H_LAST;
+    signal v_lead : natural range 0 to V_LAST;
 
     -- Output registers (ports of mode out cannot be read back in VHDL-93).
     signal hsync_q, vsync_q, de_q, hblank_q, vblank_q : std_logic;
@@ -84,10 +84,10 @@ begin
     begin
         if rising_edge(clk) then
             if rst_n = '0' then
-                h_pos <= (others => '0');
-                v_pos <= (others => '0');
-                h_lead <= to_unsigned(H_LEAD_RESET, h_lead'length);
-                v_lead <= to_unsigned(V_LEAD_RESET, v_lead'length);
+                h_pos <= 0;
+                v_pos <= 0;
+                h_lead <= H_LEAD_RESET;
+                v_lead <= V_LEAD_RESET;
                 hsync_q <= H_SYNC_OFF;
                 vsync_q <= V_SYNC_OFF;
                 de_q <= '0';
@@ -100,9 +100,9 @@ begin
             else
                 -- ---- step the position -------------------------------------
                 if h_pos = H_LAST then
-                    h_pos <= (others => '0');
+                    h_pos <= 0;
                     if v_pos = V_LAST then
-                        v_pos <= (others => '0');
+                        v_pos <= 0;
                     else
                         v_pos <= v_pos + 1;
                     end if;
@@ -110,9 +110,9 @@ begin
                     h_pos <= h_pos + 1;
                 end if;
                 if h_lead = H_LAST then
-                    h_lead <= (others => '0');
+                    h_lead <= 0;
                     if v_lead = V_LAST then
-                        v_lead <= (others => '0');
+                        v_lead <= 0;
                     else
                         v_lead <= v_lead + 1;
                     end if;
@@ -163,12 +163,12 @@ begin
 
                 -- Coordinates: the column/row while active, 0 in blanking.
                 if h_lead < H_ACTIVE then
-                    x_q <= std_logic_vector(h_lead(9 downto 0));
+                    x_q <= std_logic_vector(to_unsigned(h_lead, x_q'length));
                 else
                     x_q <= (others => '0');
                 end if;
                 if v_lead < V_ACTIVE then
-                    y_q <= std_logic_vector(v_lead(8 downto 0));
+                    y_q <= std_logic_vector(to_unsigned(v_lead, y_q'length));
                 else
                     y_q <= (others => '0');
                 end if;

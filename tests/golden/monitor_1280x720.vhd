@@ -47,32 +47,33 @@ architecture rtl of monitor_720p is
     -- ------------------------------------------------------------------
     -- Timing constants, in clock cycles (horizontal) and lines (vertical)
     -- ------------------------------------------------------------------
-    constant H_ACTIVE     : natural   := 640;  -- active cycles per line
-    constant H_SYNC_START : natural   := 695;  -- first cycle of the hsync pulse
-    constant H_SYNC_END   : natural   := 715;  -- first cycle after the hsync pulse
-    constant H_LAST       : natural   := 824;  -- last cycle of a line
-    constant V_ACTIVE     : natural   := 720;  -- active lines per frame
-    constant V_SYNC_START : natural   := 725;  -- first line of the vsync pulse
-    constant V_SYNC_END   : natural   := 730;  -- first line after the vsync pulse
-    constant V_LAST       : natural   := 749;  -- last line of a frame
-    constant V_SYNC_AT_H  : natural   := 695;  -- cycle of the line at which vsync changes (the hsync leading edge)
-    constant H_LEAD_RESET : natural   := 2;    -- column (cycles) 2 cycles ahead
-    constant V_LEAD_RESET : natural   := 0;    -- line 2 cycles ahead
-    constant H_SYNC_ON    : std_logic := '1';  -- hsync level during the pulse (positive)
-    constant H_SYNC_OFF   : std_logic := '0';  -- hsync level outside the pulse
-    constant V_SYNC_ON    : std_logic := '1';  -- vsync level during the pulse (positive)
-    constant V_SYNC_OFF   : std_logic := '0';  -- vsync level outside the pulse
+    constant H_ACTIVE         : natural   := 640;  -- active cycles per line
+    constant H_SYNC_START     : natural   := 695;  -- first cycle of the hsync pulse
+    constant H_SYNC_END       : natural   := 715;  -- first cycle after the hsync pulse
+    constant H_LAST           : natural   := 824;  -- last cycle of a line
+    constant V_ACTIVE         : natural   := 720;  -- active lines per frame
+    constant V_SYNC_START     : natural   := 725;  -- first line of the vsync pulse
+    constant V_SYNC_END       : natural   := 730;  -- first line after the vsync pulse
+    constant V_LAST           : natural   := 749;  -- last line of a frame
+    constant V_SYNC_AT_H      : natural   := 695;  -- cycle of the line at which vsync changes (the hsync leading edge)
+    constant H_LEAD_RESET     : natural   := 2;    -- column (cycles) 2 cycles ahead
+    constant V_LEAD_RESET     : natural   := 0;    -- line 2 cycles ahead
+    constant H_SYNC_ON        : std_logic := '1';  -- hsync level during the pulse (positive)
+    constant H_SYNC_OFF       : std_logic := '0';  -- hsync level outside the pulse
+    constant V_SYNC_ON        : std_logic := '1';  -- vsync level during the pulse (positive)
+    constant V_SYNC_OFF       : std_logic := '0';  -- vsync level outside the pulse
+    constant PIXELS_PER_CLOCK : natural   := 2;    -- pixels carried by each cycle
 
     -- ------------------------------------------------------------------
     -- Position counters
     -- ------------------------------------------------------------------
     -- h_pos/v_pos: the position the outputs take on at the next advancing
     -- edge; column 0 of line 0 is the first active pixel of a frame.
-    signal h_pos : unsigned(9 downto 0);
-    signal v_pos : unsigned(9 downto 0);
+    signal h_pos : natural range 0 to H_LAST;
+    signal v_pos : natural range 0 to V_LAST;
     -- h_lead/v_lead run the same count ahead by the lead, for x and y.
-    signal h_lead : unsigned(9 downto 0);
-    signal v_lead : unsigned(9 downto 0);
+    signal h_lead : natural range 0 to H_LAST;
+    signal v_lead : natural range 0 to V_LAST;
 
     -- Output registers (ports of mode out cannot be read back in VHDL-93).
     signal hsync_q, vsync_q, de_q, hblank_q, vblank_q : std_logic;
@@ -86,10 +87,10 @@ begin
     begin
         if rising_edge(dvi_clk) then
             if dvi_rst = '1' then
-                h_pos <= (others => '0');
-                v_pos <= (others => '0');
-                h_lead <= to_unsigned(H_LEAD_RESET, h_lead'length);
-                v_lead <= to_unsigned(V_LEAD_RESET, v_lead'length);
+                h_pos <= 0;
+                v_pos <= 0;
+                h_lead <= H_LEAD_RESET;
+                v_lead <= V_LEAD_RESET;
                 hsync_q <= H_SYNC_OFF;
                 vsync_q <= V_SYNC_OFF;
                 de_q <= '0';
@@ -102,9 +103,9 @@ begin
             else
                 -- ---- step the position -------------------------------------
                 if h_pos = H_LAST then
-                    h_pos <= (others => '0');
+                    h_pos <= 0;
                     if v_pos = V_LAST then
-                        v_pos <= (others => '0');
+                        v_pos <= 0;
                     else
                         v_pos <= v_pos + 1;
                     end if;
@@ -112,9 +113,9 @@ begin
                     h_pos <= h_pos + 1;
                 end if;
                 if h_lead = H_LAST then
-                    h_lead <= (others => '0');
+                    h_lead <= 0;
                     if v_lead = V_LAST then
-                        v_lead <= (others => '0');
+                        v_lead <= 0;
                     else
                         v_lead <= v_lead + 1;
                     end if;
@@ -165,12 +166,12 @@ begin
 
                 -- Coordinates: the column/row while active, 0 in blanking.
                 if h_lead < H_ACTIVE then
-                    x_q <= std_logic_vector(h_lead(9 downto 0)) & "0";
+                    x_q <= std_logic_vector(to_unsigned(h_lead * PIXELS_PER_CLOCK, x_q'length));
                 else
                     x_q <= (others => '0');
                 end if;
                 if v_lead < V_ACTIVE then
-                    y_q <= std_logic_vector(v_lead(9 downto 0));
+                    y_q <= std_logic_vector(to_unsigned(v_lead, y_q'length));
                 else
                     y_q <= (others => '0');
                 end if;

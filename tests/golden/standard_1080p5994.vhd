@@ -48,27 +48,28 @@ architecture rtl of hdmi_1080p5994 is
     -- ------------------------------------------------------------------
     -- Timing constants, in clock cycles (horizontal) and lines (vertical)
     -- ------------------------------------------------------------------
-    constant H_ACTIVE     : natural   := 960;   -- active cycles per line
-    constant H_SYNC_START : natural   := 1004;  -- first cycle of the hsync pulse
-    constant H_SYNC_END   : natural   := 1026;  -- first cycle after the hsync pulse
-    constant H_LAST       : natural   := 1099;  -- last cycle of a line
-    constant V_ACTIVE     : natural   := 1080;  -- active lines per frame
-    constant V_SYNC_START : natural   := 1084;  -- first line of the vsync pulse
-    constant V_SYNC_END   : natural   := 1089;  -- first line after the vsync pulse
-    constant V_LAST       : natural   := 1124;  -- last line of a frame
-    constant V_SYNC_AT_H  : natural   := 1004;  -- cycle of the line at which vsync changes (the hsync leading edge)
-    constant H_SYNC_ON    : std_logic := '1';   -- hsync level during the pulse (positive)
-    constant H_SYNC_OFF   : std_logic := '0';   -- hsync level outside the pulse
-    constant V_SYNC_ON    : std_logic := '1';   -- vsync level during the pulse (positive)
-    constant V_SYNC_OFF   : std_logic := '0';   -- vsync level outside the pulse
+    constant H_ACTIVE         : natural   := 960;   -- active cycles per line
+    constant H_SYNC_START     : natural   := 1004;  -- first cycle of the hsync pulse
+    constant H_SYNC_END       : natural   := 1026;  -- first cycle after the hsync pulse
+    constant H_LAST           : natural   := 1099;  -- last cycle of a line
+    constant V_ACTIVE         : natural   := 1080;  -- active lines per frame
+    constant V_SYNC_START     : natural   := 1084;  -- first line of the vsync pulse
+    constant V_SYNC_END       : natural   := 1089;  -- first line after the vsync pulse
+    constant V_LAST           : natural   := 1124;  -- last line of a frame
+    constant V_SYNC_AT_H      : natural   := 1004;  -- cycle of the line at which vsync changes (the hsync leading edge)
+    constant H_SYNC_ON        : std_logic := '1';   -- hsync level during the pulse (positive)
+    constant H_SYNC_OFF       : std_logic := '0';   -- hsync level outside the pulse
+    constant V_SYNC_ON        : std_logic := '1';   -- vsync level during the pulse (positive)
+    constant V_SYNC_OFF       : std_logic := '0';   -- vsync level outside the pulse
+    constant PIXELS_PER_CLOCK : natural   := 2;     -- pixels carried by each cycle
 
     -- ------------------------------------------------------------------
     -- Position counters
     -- ------------------------------------------------------------------
     -- h_pos/v_pos: the position the outputs take on at the next advancing
     -- edge; column 0 of line 0 is the first active pixel of a frame.
-    signal h_pos : unsigned(10 downto 0);
-    signal v_pos : unsigned(10 downto 0);
+    signal h_pos : natural range 0 to H_LAST;
+    signal v_pos : natural range 0 to V_LAST;
 
     -- Output registers (ports of mode out cannot be read back in VHDL-93).
     signal hsync_q, vsync_q, de_q, hblank_q, vblank_q : std_logic;
@@ -82,8 +83,8 @@ begin
     begin
         if rising_edge(clk) then
             if rst = '1' then
-                h_pos <= (others => '0');
-                v_pos <= (others => '0');
+                h_pos <= 0;
+                v_pos <= 0;
                 hsync_q <= H_SYNC_OFF;
                 vsync_q <= V_SYNC_OFF;
                 de_q <= '0';
@@ -96,9 +97,9 @@ begin
             else
                 -- ---- step the position -------------------------------------
                 if h_pos = H_LAST then
-                    h_pos <= (others => '0');
+                    h_pos <= 0;
                     if v_pos = V_LAST then
-                        v_pos <= (others => '0');
+                        v_pos <= 0;
                     else
                         v_pos <= v_pos + 1;
                     end if;
@@ -149,12 +150,12 @@ begin
 
                 -- Coordinates: the column/row while active, 0 in blanking.
                 if h_pos < H_ACTIVE then
-                    x_q <= std_logic_vector(h_pos(9 downto 0)) & "0";
+                    x_q <= std_logic_vector(to_unsigned(h_pos * PIXELS_PER_CLOCK, x_q'length));
                 else
                     x_q <= (others => '0');
                 end if;
                 if v_pos < V_ACTIVE then
-                    y_q <= std_logic_vector(v_pos(10 downto 0));
+                    y_q <= std_logic_vector(to_unsigned(v_pos, y_q'length));
                 else
                     y_q <= (others => '0');
                 end if;
