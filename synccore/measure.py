@@ -187,13 +187,13 @@ def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
     periods = [b - a for a, b in zip(line_starts, line_starts[1:], strict=False)]
     line_total = max(set(periods), key=periods.count) if periods else 0
     found["line_total"].update(p * ppc for p in periods)
-    for s, e in _pulses(events, "hblank", 1):
-        if e is not None and s > 0:
-            found["hblank_width"].add((e - s) * ppc)
+    for b_start, b_end in _pulses(events, "hblank", 1):
+        if b_end is not None and b_start > 0:
+            found["hblank_width"].add((b_end - b_start) * ppc)
     if line_total:
-        for s, e in _pulses(events, "vblank", 1):
-            if e is not None and s > 0:
-                found["vblank_width"].add(_lines(e - s, line_total))
+        for b_start, b_end in _pulses(events, "vblank", 1):
+            if b_end is not None and b_start > 0:
+                found["vblank_width"].add(_lines(b_end - b_start, line_total))
     found["de_vs_blanks"].add(
         "yes" if all(e.de == 1 - (e.hblank | e.vblank) for e in events[1:]) else "no")  # fmt: skip
     for s, e in de_runs:
