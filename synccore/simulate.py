@@ -23,7 +23,7 @@ from pathlib import Path
 from .build import core_artifacts
 from .emit.harness import HARNESS_TOP, render_harness
 from .spec import Spec, to_dict
-from .tools import INSTALL_HINT, find
+from .tools import INSTALL_HINT, build_env, find
 
 VHDL_STANDARDS = {"93": "--std=93", "08": "--std=08"}
 _GENERIC = {"events": "events_path", "stop": "stop_at"}
@@ -135,7 +135,7 @@ def run_bench(
     run_dir.mkdir(parents=True, exist_ok=True)
     spec_json = run_dir / "spec.json"
     spec_json.write_text(json.dumps(to_dict(spec)))
-    extra = dict(tool.env)
+    extra = build_env(tool, cache_dir())
     extra.update(env or {})
     extra["SYNCCORE_SPEC"] = str(spec_json)
     extra["SYNCCORE_SPEC_JSON"] = str(spec_json)
@@ -155,7 +155,7 @@ def run_bench(
         # here, the same way from the command line and from the tests.
         pytest_test = os.environ.pop("PYTEST_CURRENT_TEST", None)
         try:
-            with _locked(build_dir) if simulator == "ghdl" else contextlib.nullcontext():
+            with locked(build_dir) if simulator == "ghdl" else contextlib.nullcontext():
                 runner.test(
                     test_module=bench,
                     hdl_toplevel=top,
@@ -183,7 +183,7 @@ def run_bench(
 
 
 @contextlib.contextmanager
-def _locked(folder: Path) -> Iterator[None]:
+def locked(folder: Path) -> Iterator[None]:
     folder.parent.mkdir(parents=True, exist_ok=True)
     with open(folder.parent / f"{folder.name}.lock", "w") as lock:
         fcntl.flock(lock, fcntl.LOCK_EX)
@@ -197,7 +197,7 @@ def _build(runner: object, build_dir: Path, files: dict[str, str], top: str,
            build_args: list[str], waves: bool) -> None:  # fmt: skip
     """Build once per content hash; concurrent builders of the same folder wait for each other."""
     done = build_dir / ".synccore-built"
-    with _locked(build_dir):
+    with locked(build_dir):
         if done.is_file():
             return
         if build_dir.exists():

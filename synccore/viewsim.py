@@ -31,9 +31,9 @@ from .emit._jinja import environment
 from .emit.pattern import pattern_context
 from .model import Timing
 from .pattern import levels, picture_size
-from .simulate import cache_dir
+from .simulate import cache_dir, locked
 from .spec import Spec
-from .tools import INSTALL_HINT, find
+from .tools import INSTALL_HINT, build_env, find
 
 VIEW_ENGINES = ("icarus", "ghdl", "verilator", "builtin", "model")
 BENCH = "synccore_view"
@@ -158,14 +158,15 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
         key = hashlib.sha256(json.dumps(sorted(files.items())).encode()).hexdigest()[:24]
         build = cache_dir() / f"view-verilator-{key}"
         binary = build / "obj" / f"V{BENCH}"
-        if not binary.is_file():
-            shutil.rmtree(build, ignore_errors=True)
-            build.mkdir(parents=True)
-            for name, text in files.items():
-                (build / name).write_text(text, encoding="utf-8")
-            _run(["verilator", "--binary", "--timing", "-Wno-fatal", "-O2", "-j", "2",
-                  "-CFLAGS", "-std=c++20 -fcoroutines", "--top-module", BENCH, "-Mdir", "obj",
-                  *names], build, tool.env)  # fmt: skip
+        with locked(build):  # parallel runs of the same design build it once
+            if not binary.is_file():
+                shutil.rmtree(build, ignore_errors=True)
+                build.mkdir(parents=True)
+                for name, text in files.items():
+                    (build / name).write_text(text, encoding="utf-8")
+                _run(["verilator", "--binary", "--timing", "-Wno-fatal", "-O2", "-j", "2",
+                      "-CFLAGS", "-std=c++20 -fcoroutines", "--top-module", BENCH, "-Mdir", "obj",
+                      *names], build, build_env(tool, cache_dir()))  # fmt: skip
         _run([str(binary), f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir, tool.env)
     if not screen.is_file():
         raise ViewError(f"{engine}: the bench wrote no {screen.name}")
