@@ -108,15 +108,24 @@ class Family:
 
 
 # --------------------------------------------------------------------- iCE40
-# Lattice TN1251 "iCE40 sysCLOCK PLL Design and Usage Guide" (from memory):
-# F_REFERENCECLK 10-133 MHz, F_PFD 10-133 MHz, F_VCO 533-1066 MHz,
-# F_PLLOUT 16-275 MHz; DIVR 4 bits (divide 1-16), DIVF 7 bits (multiply
-# 1-128), DIVQ 3 bits, VCO divided by 2**DIVQ with DIVQ 1-6 in SIMPLE feedback.
+# Lattice TN1251 (now FPGA-TN-02052) "iCE40 sysCLOCK PLL Design and Usage Guide"
+# and the iCE40 LP/HX data sheet DS1040, SB_PLL40_CORE in SIMPLE feedback.
+# Checked: the widths of DIVR (4 bits), DIVF (7 bits), DIVQ (3 bits) and
+# FILTER_RANGE (3 bits), from the primitive's parameter declarations in
+# Lattice's own SiliconBlue model sb_ice_syn.v and in Yosys
+# techlibs/ice40/cells_sim.v; F_PLLOUT at most 275 MHz, from Lattice
+# PCN#01A-13 (March 2013: "PLL out frequency changed from 533MHz to 275MHz"
+# in DS1040 version 02.1).  Seen only in third-party quotations of TN1251 and
+# DS1040, not in the documents themselves: F_REFERENCECLK 10-133 MHz, F_PFD
+# 10-133 MHz, F_VCO 533-1066 MHz, F_PLLOUT from 16 MHz.  From memory: DIVR
+# divides 1-16, DIVF multiplies 1-128, the VCO is divided by 2**DIVQ with
+# DIVQ 1-6 in SIMPLE feedback.
 ICE40 = Family(
     key="ice40",
     title="Lattice iCE40 (SB_PLL40_CORE, SIMPLE feedback)",
     primitive="SB_PLL40_CORE",
-    document="Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide (from memory)",
+    document="Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide; DS1040 "
+    "(F_PLLOUT 275 MHz checked; other limits from quotations, DIVQ 1-6 from memory)",
     input_range=Range(_mhz("10"), _mhz("133")),
     pfd_range=Range(_mhz("10"), _mhz("133")),
     vco_range=Range(_mhz("533"), _mhz("1066")),
@@ -171,21 +180,27 @@ ECP5 = Family(
 )
 
 # ------------------------------------------------------------------ 7-series
-# Xilinx UG472 "7 Series FPGAs Clocking Resources" (attribute ranges, from
-# memory): MMCME2 DIVCLK_DIVIDE 1-106, CLKFBOUT_MULT_F 2.000-64.000 in steps
-# of 0.125, CLKOUT0_DIVIDE_F 1 or 2.000-128.000 in steps of 0.125; PLLE2
-# DIVCLK_DIVIDE 1-56, CLKFBOUT_MULT 2-64, CLKOUT0_DIVIDE 1-128.
+# Xilinx UG472 "7 Series FPGAs Clocking Resources" attribute ranges, checked
+# against Xilinx's unisim simulation models MMCME2_ADV.v and PLLE2_ADV.v
+# (Vivado unified simulation library: M_MIN/M_MAX, D_MAX, O_MAX and their
+# range checks): MMCME2 DIVCLK_DIVIDE 1-106, CLKFBOUT_MULT_F 2.000-64.000,
+# CLKOUT0_DIVIDE_F 1 or 2.000-128.000, both in steps of 0.125 (the step as
+# UG572 states it for the UltraScale MMCM; for UG472 from memory); PLLE2
+# DIVCLK_DIVIDE 1-56, CLKFBOUT_MULT 2-64, CLKOUT0_DIVIDE 1-128.  The same
+# models give the minimum frequencies, which do not depend on the speed grade:
+# MMCM CLKIN and PFD 10 MHz, VCO 600 MHz; PLL CLKIN and PFD 19 MHz, VCO 800 MHz
+# (their maxima, 1066/550/1600 and 1066/550/2133 MHz, are the fastest grade's).
 # Xilinx DS181 "Artix-7 FPGAs Data Sheet: DC and AC Switching Characteristics",
-# speed grade -1 (from memory): MMCM_FINMIN/MAX 10/800 MHz, MMCM_FPFDMIN/MAX
-# 10/450 MHz, MMCM_FVCOMIN/MAX 600/1200 MHz, MMCM_FOUTMIN/MAX 4.69/800 MHz;
-# PLL_FINMIN/MAX 19/800 MHz, PLL_FPFDMIN/MAX 19/450 MHz, PLL_FVCOMIN/MAX
-# 800/1600 MHz, PLL_FOUTMIN/MAX 6.25/800 MHz.  Kintex-7 (DS182) allows more.
+# speed grade -1, maxima and output minima (from memory): MMCM_FINMAX 800 MHz,
+# MMCM_FPFDMAX 450 MHz, MMCM_FVCOMAX 1200 MHz, MMCM_FOUTMIN/MAX 4.69/800 MHz;
+# PLL_FINMAX 800 MHz, PLL_FPFDMAX 450 MHz, PLL_FVCOMAX 1600 MHz,
+# PLL_FOUTMIN/MAX 6.25/800 MHz.  Kintex-7 (DS182) allows more.
 XC7_MMCM = Family(
     key="xc7-mmcm",
     title="Xilinx 7-series MMCM (MMCME2_BASE), speed grade -1",
     primitive="MMCME2_BASE",
-    document="Xilinx UG472 7 Series Clocking Resources; DS181 Artix-7 switching "
-    "characteristics, -1 (from memory)",
+    document="Xilinx UG472 7 Series Clocking Resources and unisim models (ratios, minima); "
+    "DS181 Artix-7 switching characteristics, -1 (maxima from memory)",
     input_range=Range(_mhz("10"), _mhz("800")),
     pfd_range=Range(_mhz("10"), _mhz("450")),
     vco_range=Range(_mhz("600"), _mhz("1200")),
@@ -200,8 +215,8 @@ XC7_PLL = Family(
     key="xc7-pll",
     title="Xilinx 7-series PLL (PLLE2_BASE), speed grade -1",
     primitive="PLLE2_BASE",
-    document="Xilinx UG472 7 Series Clocking Resources; DS181 Artix-7 switching "
-    "characteristics, -1 (from memory)",
+    document="Xilinx UG472 7 Series Clocking Resources and unisim models (ratios, minima); "
+    "DS181 Artix-7 switching characteristics, -1 (maxima from memory)",
     input_range=Range(_mhz("19"), _mhz("800")),
     pfd_range=Range(_mhz("19"), _mhz("450")),
     vco_range=Range(_mhz("800"), _mhz("1600")),
@@ -213,17 +228,21 @@ XC7_PLL = Family(
 )
 
 # --------------------------------------------------------------------- Gowin
-# Gowin UG286 "Gowin Clock User Guide", rPLL (from memory): CLKOUT =
-# CLKIN * (FBDIV_SEL + 1) / (IDIV_SEL + 1), VCO = CLKOUT * ODIV_SEL; IDIV_SEL
-# and FBDIV_SEL 0-63, ODIV_SEL one of 2, 4, 8, 16, 32, 48, 64, 80, 96, 112, 128.
-# Frequency limits of the GW1N(R)-9 class, C6/I5 (Gowin DS117 data sheet, from
-# memory): CLKIN 3-400 MHz, PFD 3-400 MHz, VCO 400-1200 MHz, CLKOUT 3.125-600 MHz.
-# Other Gowin devices have other VCO limits: check the device's data sheet.
+# Gowin UG286 "Gowin Clock User Guide", rPLL: CLKOUT = CLKIN * (FBDIV_SEL + 1)
+# / (IDIV_SEL + 1), VCO = CLKOUT * ODIV_SEL.  The ranges are those of Gowin's
+# rPLL primitive declaration (parameter comments "IDIV_SEL 0:1, 1:2 ... 63:64",
+# the same for FBDIV_SEL, "ODIV_SEL 2/4/8/16/32/48/64/80/96/112/128"), as
+# reproduced in Yosys techlibs/gowin/cells_sim.v.  Frequency limits of the
+# GW1N(R)-9 class, C6/I5 (Gowin DS100 GW1N and DS117 GW1NR data sheets, from
+# memory): CLKIN 3-400 MHz, PFD 3-400 MHz, VCO 400-1200 MHz, CLKOUT
+# 3.125-600 MHz.  Other Gowin devices have other VCO limits: check the
+# device's data sheet.
 GOWIN = Family(
     key="gowin",
     title="Gowin GW1N/GW1NR (rPLL), GW1N-9 class limits",
     primitive="rPLL",
-    document="Gowin UG286 Clock User Guide; DS117 GW1N data sheet (from memory)",
+    document="Gowin UG286 Clock User Guide; DS100 GW1N / DS117 GW1NR data sheets "
+    "(frequency limits from memory)",
     input_range=Range(_mhz("3"), _mhz("400")),
     pfd_range=Range(_mhz("3"), _mhz("400")),
     vco_range=Range(_mhz("400"), _mhz("1200")),
@@ -239,19 +258,24 @@ GOWIN = Family(
 # -------------------------------------------------------------------- Intel
 # Intel "Cyclone IV Device Handbook" vol. 1 ch. 5 (clock networks and PLLs):
 # f_out = f_in * M / (N * K * C), counters N, M and C 1-512, K 1 or 2; vol. 3
-# (device data sheet) table 1-25 PLL specifications: f_IN 5 MHz up to 472.5 MHz
-# depending on the speed grade, f_INPFD 5-325 MHz, f_VCO 600-1300 MHz (checked
-# against a published quotation of the handbook's table).  The 402.5 MHz input
-# and output limits used here for grade C8 are from memory.  Cyclone 10 LP data sheet states
-# the same PLL figures (from memory).  The post-scale counter K (1 or 2) is
-# left at 1.  ALTPLL takes the ratio (clk0_multiply_by / clk0_divide_by);
-# Quartus picks the counters, which may differ from ours but give the same ratio.
+# (device data sheet) table 1-25 PLL specifications: f_IN 5 MHz up to
+# 265-472.5 MHz depending on the speed grade, f_INPFD 5-325 MHz, f_VCO
+# 600-1300 MHz (checked against a published quotation of the handbook's
+# table).  Intel Cyclone 10 LP Device Datasheet (Intel document 683251), "PLL
+# Specifications", read: f_IN 5-472.5 MHz for -C6, -C8, -I7 and -A7 (362 MHz
+# for -I8), f_INPFD 5-325 MHz, f_VCO 600-1300 MHz, f_OUT_EXT up to 472.5 MHz.
+# The 402.5 MHz limit used here for grade C8 on the output (to the global
+# clock network) is from memory, and so is its use on the input: lower than
+# Cyclone 10 LP's 472.5 MHz, kept because the Cyclone IV C8 input limit was
+# not seen.  The post-scale counter K (1 or 2) is left at 1.  ALTPLL takes the
+# ratio (clk0_multiply_by / clk0_divide_by); Quartus picks the counters, which
+# may differ from ours but give the same ratio.
 CYCLONE = Family(
     key="cyclone",
     title="Intel Cyclone IV / Cyclone 10 LP (ALTPLL), speed grade C8",
     primitive="altpll",
     document="Intel Cyclone IV Device Handbook vol. 1 ch. 5 and vol. 3 table 1-25; "
-    "Cyclone 10 LP data sheet (C8 limits from memory)",
+    "Cyclone 10 LP Device Datasheet, PLL Specifications (C8 402.5 MHz limits from memory)",
     input_range=Range(_mhz("5"), _mhz("402.5")),
     pfd_range=Range(_mhz("5"), _mhz("325")),
     vco_range=Range(_mhz("600"), _mhz("1300")),
