@@ -32,13 +32,13 @@ def mhz(text: str) -> Fraction:
 # family: input, PFD, VCO and output ranges in MHz (None: no bound stated), and
 # the legal ratio sets of the input divider D, multiplier M and output divider O.
 DOCUMENTED = {
-    # Lattice TN1251 / DS1040: output at most 275 MHz (Lattice PCN#01A-13); the other
-    # limits as quoted by third parties from TN1251; DIVQ 1-6 from memory
+    # Lattice DS1040 v3.4, sysCLOCK PLL Timing (f_IN, f_OUT, f_VCO, f_PFD) and sysCLOCK
+    # PLLs ("output divider ... 1 to 6"); DIVR/DIVF widths of the SB_PLL40_CORE declaration
     "ice40": dict(fin=("10", "133"), pfd=("10", "133"), vco=("533", "1066"), out=("16", "275"),
                   D=range(1, 17), M=range(1, 129), O=[2, 4, 8, 16, 32, 64], feedback="vco"),
-    # Lattice FPGA-TN-02200 (TN1263) / DS1044, ECP5 EHXPLLL: input, VCO, output and
-    # divider ranges as quoted from the data sheet's PLL timing table; PFD from memory
-    "ecp5": dict(fin=("8", "400"), pfd=("3.125", "400"), vco=("400", "800"), out=("3.125", "400"),
+    # Lattice FPGA-TN-02200 (TN1263) / DS1044, ECP5 EHXPLLL: input, PFD, VCO, output
+    # and divider ranges as quoted from the data sheet's sysCLOCK PLL timing table
+    "ecp5": dict(fin=("8", "400"), pfd=("10", "400"), vco=("400", "800"), out=("3.125", "400"),
                  D=range(1, 129), M=range(1, 129), O=range(1, 129), feedback="output"),
     # Xilinx UG472 attribute ranges and minimum frequencies, as in Xilinx's unisim models
     # MMCME2_ADV.v / PLLE2_ADV.v; DS181 Artix-7 -1 maxima and output minima from memory
@@ -186,9 +186,14 @@ def test_no_legal_setting_is_closer(key: str, board: str, pixel: str) -> None:
 
 def test_exact_clocks_from_27_mhz() -> None:
     """74.25 MHz = 27 MHz x 11 / 4 exactly: the trade's reason for 27 MHz video oscillators."""
-    for key in ("ecp5", "xc7-mmcm", "xc7-pll", "gowin", "cyclone"):
+    for key in ("xc7-mmcm", "xc7-pll", "gowin", "cyclone"):
         best = solve(FAMILIES[key], mhz("27"), mhz("74.25"))[0]
         assert best.f_out == mhz("74.25"), key
+    # ECP5 with feedback from CLKOP: the output is 27 MHz x CLKFB_DIV / CLKI_DIV, and
+    # CLKI_DIV = 4 would put the PFD at 6.75 MHz, under the data sheet's 10 MHz; with
+    # CLKI_DIV 1 or 2 the nearest are 27 x 5 / 2 = 67.5 and 27 x 3 = 81 MHz.
+    ecp5 = solve(FAMILIES["ecp5"], mhz("27"), mhz("74.25"))[0]
+    assert ecp5.f_pfd >= mhz("10") and ecp5.f_out in (mhz("67.5"), mhz("81"))
 
 
 def test_640x480_at_25_000_mhz_is_0_7_percent_slow() -> None:

@@ -109,23 +109,23 @@ class Family:
 
 # --------------------------------------------------------------------- iCE40
 # Lattice TN1251 (now FPGA-TN-02052) "iCE40 sysCLOCK PLL Design and Usage Guide"
-# and the iCE40 LP/HX data sheet DS1040, SB_PLL40_CORE in SIMPLE feedback.
-# Checked: the widths of DIVR (4 bits), DIVF (7 bits), DIVQ (3 bits) and
-# FILTER_RANGE (3 bits), from the primitive's parameter declarations in
-# Lattice's own SiliconBlue model sb_ice_syn.v and in Yosys
-# techlibs/ice40/cells_sim.v; F_PLLOUT at most 275 MHz, from Lattice
-# PCN#01A-13 (March 2013: "PLL out frequency changed from 533MHz to 275MHz"
-# in DS1040 version 02.1).  Seen only in third-party quotations of TN1251 and
-# DS1040, not in the documents themselves: F_REFERENCECLK 10-133 MHz, F_PFD
-# 10-133 MHz, F_VCO 533-1066 MHz, F_PLLOUT from 16 MHz.  From memory: DIVR
-# divides 1-16, DIVF multiplies 1-128, the VCO is divided by 2**DIVQ with
-# DIVQ 1-6 in SIMPLE feedback.
+# and the iCE40 LP/HX Family Data Sheet DS1040, SB_PLL40_CORE in SIMPLE feedback.
+# DS1040 version 3.4 (October 2017), DC and Switching Characteristics, "sysCLOCK
+# PLL Timing": f_IN (REFERENCECLK) 10-133 MHz, f_OUT (PLLOUT) 16-275 MHz, f_VCO
+# 533-1066 MHz, f_PFD 10-133 MHz (the iCE40 UltraPlus data sheet FPGA-DS-02008,
+# table 4.22, gives the same four ranges); its Architecture section, "sysCLOCK
+# Phase Locked Loops": "The output divider can have a value from 1 to 6" (DIVQ).
+# The widths of DIVR (4 bits), DIVF (7 bits), DIVQ (3 bits) and FILTER_RANGE
+# (3 bits) are those of the primitive's parameter declarations in Lattice's
+# SiliconBlue model sb_ice_syn.v and in Yosys techlibs/ice40/cells_sim.v.
+# From memory (TN1251): DIVR = divide - 1, DIVF = multiply - 1, and the VCO
+# divided by 2**DIVQ.
 ICE40 = Family(
     key="ice40",
     title="Lattice iCE40 (SB_PLL40_CORE, SIMPLE feedback)",
     primitive="SB_PLL40_CORE",
-    document="Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide; DS1040 "
-    "(F_PLLOUT 275 MHz checked; other limits from quotations, DIVQ 1-6 from memory)",
+    document="Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide; DS1040 iCE40 LP/HX "
+    "data sheet, sysCLOCK PLL Timing",
     input_range=Range(_mhz("10"), _mhz("133")),
     pfd_range=Range(_mhz("10"), _mhz("133")),
     vco_range=Range(_mhz("533"), _mhz("1066")),
@@ -160,7 +160,10 @@ def ice40_filter_range(f_pfd: Fraction) -> int:
 # Design and Usage Guide" and the ECP5 family data sheet DS1044, sysCLOCK PLL
 # timing: f_IN 8-400 MHz, f_OUT 3.125-400 MHz, f_VCO 400-800 MHz and CLKI_DIV,
 # CLKFB_DIV, CLKOP_DIV 1-128 (checked against a published quotation of the data
-# sheet's table, not the data sheet itself); f_PFD 3.125-400 MHz from memory.
+# sheet's table, not the data sheet itself).  f_PFD 10-400 MHz: the data
+# sheet's "fPFD Phase Detector Input Frequency 10 400 MHz" row as quoted, with
+# the f_IN, f_OUT and f_VCO rows above, in a comment of a public EHXPLLL
+# wrapper; the 3.125 MHz minimum used before was recalled, not read.
 # With FEEDBK_PATH "CLKOP" the output is f_IN * CLKFB_DIV / CLKI_DIV and the VCO
 # runs at f_OUT * CLKOP_DIV.
 ECP5 = Family(
@@ -168,9 +171,9 @@ ECP5 = Family(
     title="Lattice ECP5 (EHXPLLL, feedback from CLKOP)",
     primitive="EHXPLLL",
     document="Lattice FPGA-TN-02200 (TN1263) ECP5 sysCLOCK PLL/DLL guide; DS1044 ECP5 data "
-    "sheet (PFD limit from memory)",
+    "sheet, sysCLOCK PLL timing (as quoted)",
     input_range=Range(_mhz("8"), _mhz("400")),
-    pfd_range=Range(_mhz("3.125"), _mhz("400")),
+    pfd_range=Range(_mhz("10"), _mhz("400")),
     vco_range=Range(_mhz("400"), _mhz("800")),
     output_range=Range(_mhz("3.125"), _mhz("400")),
     input_divider=Divider("CLKI_DIV", _ints(1, 128)),
