@@ -49,7 +49,7 @@ DOCUMENTED = {
     "xc7-pll": dict(fin=("19", "800"), pfd=("19", "450"), vco=("800", "1600"), out=("6.25", "800"),
                     D=range(1, 57), M=range(2, 65), O=range(1, 129), feedback="vco"),
     # Gowin rPLL divider ranges from Gowin's primitive declaration (as in Yosys
-    # techlibs/gowin/cells_sim.v); DS100/DS117 GW1N(R)-9 class limits from memory
+    # techlibs/gowin/cells_sim.v); GW1NR-9 C6/I5 limits of DS117 table 4-21, as quoted
     "gowin": dict(fin=("3", "400"), pfd=("3", "400"), vco=("400", "1200"), out=("3.125", "600"),
                   D=range(1, 65), M=range(1, 65),
                   O=[2, 4, 8, 16, 32, 48, 64, 80, 96, 112, 128], feedback="output"),

@@ -236,16 +236,18 @@ XC7_PLL = Family(
 # rPLL primitive declaration (parameter comments "IDIV_SEL 0:1, 1:2 ... 63:64",
 # the same for FBDIV_SEL, "ODIV_SEL 2/4/8/16/32/48/64/80/96/112/128"), as
 # reproduced in Yosys techlibs/gowin/cells_sim.v.  Frequency limits of the
-# GW1N(R)-9 class, C6/I5 (Gowin DS100 GW1N and DS117 GW1NR data sheets, from
-# memory): CLKIN 3-400 MHz, PFD 3-400 MHz, VCO 400-1200 MHz, CLKOUT
-# 3.125-600 MHz.  Other Gowin devices have other VCO limits: check the
-# device's data sheet.
+# GW1N(R)-9 class, C6/I5: CLKIN 3-400 MHz, PFD 3-400 MHz, VCO 400-1200 MHz,
+# CLKOUT 3.125-600 MHz, as Gowin DS117-2.9.3E (GW1NR data sheet) table 4-21 is
+# quoted in public project notes (the same for C7/I6; the slower C5/I4 grade has
+# CLKIN and PFD 3-320, VCO 320-960, CLKOUT 2.5-480 MHz, so this entry holds for
+# C6/I5 and faster parts only).  The GW1N data sheet DS100 was not seen.  Other
+# Gowin devices have other VCO limits: check the device's data sheet.
 GOWIN = Family(
     key="gowin",
     title="Gowin GW1N/GW1NR (rPLL), GW1N-9 class limits",
     primitive="rPLL",
-    document="Gowin UG286 Clock User Guide; DS100 GW1N / DS117 GW1NR data sheets "
-    "(frequency limits from memory)",
+    document="Gowin UG286 Clock User Guide; DS117 GW1NR data sheet table 4-21, C6/I5 "
+    "(as quoted)",
     input_range=Range(_mhz("3"), _mhz("400")),
     pfd_range=Range(_mhz("3"), _mhz("400")),
     vco_range=Range(_mhz("400"), _mhz("1200")),
