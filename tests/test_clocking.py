@@ -40,8 +40,9 @@ DOCUMENTED = {
     # and divider ranges as quoted from the data sheet's sysCLOCK PLL timing table
     "ecp5": dict(fin=("8", "400"), pfd=("10", "400"), vco=("400", "800"), out=("3.125", "400"),
                  D=range(1, 129), M=range(1, 129), O=range(1, 129), feedback="output"),
-    # Xilinx UG472 attribute ranges and minimum frequencies, as in Xilinx's unisim models
-    # MMCME2_ADV.v / PLLE2_ADV.v; DS181 Artix-7 -1 maxima and output minima from memory
+    # Xilinx UG472 attribute ranges, as in Xilinx's unisim models MMCME2_ADV.v /
+    # PLLE2_ADV.v; input, PFD and VCO ranges of DS181 v1.27 tables 37-38 (-1), as
+    # quoted; output ranges from memory
     "xc7-mmcm": dict(fin=("10", "800"), pfd=("10", "450"), vco=("600", "1200"),
                      out=("4.69", "800"), D=range(1, 107),
                      M=[Fraction(n, 8) for n in range(16, 513)],

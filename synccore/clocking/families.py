@@ -193,17 +193,21 @@ ECP5 = Family(
 # models give the minimum frequencies, which do not depend on the speed grade:
 # MMCM CLKIN and PFD 10 MHz, VCO 600 MHz; PLL CLKIN and PFD 19 MHz, VCO 800 MHz
 # (their maxima, 1066/550/1600 and 1066/550/2133 MHz, are the fastest grade's).
-# Xilinx DS181 "Artix-7 FPGAs Data Sheet: DC and AC Switching Characteristics",
-# speed grade -1, maxima and output minima (from memory): MMCM_FINMAX 800 MHz,
-# MMCM_FPFDMAX 450 MHz, MMCM_FVCOMAX 1200 MHz, MMCM_FOUTMIN/MAX 4.69/800 MHz;
-# PLL_FINMAX 800 MHz, PLL_FPFDMAX 450 MHz, PLL_FVCOMAX 1600 MHz,
+# Xilinx DS181 "Artix-7 FPGAs Data Sheet: DC and AC Switching Characteristics"
+# v1.27, table 37 "MMCM Specification" and table 38 "PLL Specification", -1
+# (and -1LI) column, as quoted in public design notes: MMCM_FINMIN/MAX 10/800 MHz,
+# MMCM_FPFDMIN/MAX 10/450 MHz, MMCM_FVCOMIN/MAX 600/1200 MHz; PLL_FINMIN/MAX
+# 19/800 MHz, PLL_FPFDMIN/MAX 19/450 MHz, PLL_FVCOMIN/MAX 800/1600 MHz (the
+# Zynq-7000 data sheet DS187, table 72, is quoted with MMCM_FVCOMAX 1200 MHz
+# for -1, 1440 for -2, 1600 for -3).  The output ranges are from memory:
+# MMCM_FOUTMIN/MAX 4.69/800 MHz (the Kintex-7 figures quoted from DS182),
 # PLL_FOUTMIN/MAX 6.25/800 MHz.  Kintex-7 (DS182) allows more.
 XC7_MMCM = Family(
     key="xc7-mmcm",
     title="Xilinx 7-series MMCM (MMCME2_BASE), speed grade -1",
     primitive="MMCME2_BASE",
-    document="Xilinx UG472 7 Series Clocking Resources and unisim models (ratios, minima); "
-    "DS181 Artix-7 switching characteristics, -1 (maxima from memory)",
+    document="Xilinx UG472 7 Series Clocking Resources and unisim models (ratios); DS181 "
+    "Artix-7 tables 37-38, -1 (as quoted; output range from memory)",
     input_range=Range(_mhz("10"), _mhz("800")),
     pfd_range=Range(_mhz("10"), _mhz("450")),
     vco_range=Range(_mhz("600"), _mhz("1200")),
@@ -218,8 +222,8 @@ XC7_PLL = Family(
     key="xc7-pll",
     title="Xilinx 7-series PLL (PLLE2_BASE), speed grade -1",
     primitive="PLLE2_BASE",
-    document="Xilinx UG472 7 Series Clocking Resources and unisim models (ratios, minima); "
-    "DS181 Artix-7 switching characteristics, -1 (maxima from memory)",
+    document="Xilinx UG472 7 Series Clocking Resources and unisim models (ratios); DS181 "
+    "Artix-7 tables 37-38, -1 (as quoted; output range from memory)",
     input_range=Range(_mhz("19"), _mhz("800")),
     pfd_range=Range(_mhz("19"), _mhz("450")),
     vco_range=Range(_mhz("800"), _mhz("1600")),
