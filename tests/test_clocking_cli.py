@@ -247,7 +247,8 @@ def test_adjustment_through_a_pll_uses_a_legal_setting(tmp_path: Path) -> None:
     assert code == 0 and data["within_tolerance"] is False
     adj = data["adjustment"]
     p = adj["setting"]["parameters"]
-    # TN1251 (from memory): f_out = f_in * (DIVF + 1) / ((DIVR + 1) * 2**DIVQ), VCO 533-1066 MHz
+    # f_out = f_in * (DIVF + 1) / ((DIVR + 1) * 2**DIVQ) (TN1251, from memory);
+    # VCO 533-1066 MHz (DS1040 v3.4, sysCLOCK PLL Timing)
     f_in = Fraction(25 * MHZ)
     vco = f_in * (p["DIVF"] + 1) / (p["DIVR"] + 1)
     assert 533 * MHZ <= vco <= 1066 * MHZ
