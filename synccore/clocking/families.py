@@ -190,9 +190,9 @@ ECP5 = Family(
 # CLKOUT0_DIVIDE_F 1 or 2.000-128.000, both in steps of 0.125 (the step as
 # UG572 states it for the UltraScale MMCM; for UG472 from memory); PLLE2
 # DIVCLK_DIVIDE 1-56, CLKFBOUT_MULT 2-64, CLKOUT0_DIVIDE 1-128.  The same
-# models give the minimum frequencies, which do not depend on the speed grade:
-# MMCM CLKIN and PFD 10 MHz, VCO 600 MHz; PLL CLKIN and PFD 19 MHz, VCO 800 MHz
-# (their maxima, 1066/550/1600 and 1066/550/2133 MHz, are the fastest grade's).
+# models carry one set of frequency limits for all grades: minima MMCM CLKIN
+# and PFD 10 MHz, VCO 600 MHz, PLL CLKIN and PFD 19 MHz, VCO 800 MHz (the
+# same as DS181 below); maxima 1066/550/1600 and 1066/550/2133 MHz, beyond -1.
 # Xilinx DS181 "Artix-7 FPGAs Data Sheet: DC and AC Switching Characteristics"
 # v1.27, table 37 "MMCM Specification" and table 38 "PLL Specification", -1
 # (and -1LI) column, as quoted in public design notes: MMCM_FINMIN/MAX 10/800 MHz,
