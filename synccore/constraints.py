@@ -6,7 +6,9 @@ output net, with the frequency the plan reaches.  Port and net names are
 the wrapper's: when the wrapper sits inside a top module, rename them to
 that module's ports and nets.  For Xilinx the XDC declares only the board
 clock; Vivado derives the MMCM/PLL output clock from the primitive's
-attributes (Xilinx UG903, from memory).
+attributes (Xilinx UG903, "Automatically Derived Clocks": once the master
+clock is defined, Vivado creates the generated clocks on the output pins of
+the clock modifying blocks, MMCM and PLL among them in the 7 series).
 
 For the clock-enable route the core runs on the board clock, so only the
 board clock is declared; the core's paths could be relaxed to the ce rate

@@ -17,9 +17,11 @@ from synccore.clocking import FAMILIES, MONITOR_TOLERANCE, solve, solve_enable
 MHZ = 10**6
 
 BOARD_CLOCKS_MHZ = ("12", "25", "27", "50", "100")
-# Pixel clocks of common modes, VESA DMT (from memory): 640x480@60 25.175 MHz,
-# 800x600@60 40.000, 1024x768@60 65.000, 1280x720@60 74.250, 1280x1024@60 108.000,
-# 1920x1080@60 148.500; 1280x800@60 reduced blanking 71.000.
+# Pixel clocks of common modes, VESA DMT as reproduced in the Linux kernel's
+# drm_dmt_modes[] (drivers/gpu/drm/drm_edid.c): 640x480@60 25.175 MHz (04h),
+# 800x600@60 40.000 (09h), 1024x768@60 65.000 (10h), 1280x720@60 74.250 (55h),
+# 1280x1024@60 108.000 (23h), 1920x1080@60 148.500 (52h); 1280x800@60 reduced
+# blanking 71.000 (1Bh).
 PIXEL_CLOCKS_MHZ = ("25.175", "40", "65", "71", "74.25", "108", "148.5")
 
 
@@ -30,26 +32,32 @@ def mhz(text: str) -> Fraction:
 # family: input, PFD, VCO and output ranges in MHz (None: no bound stated), and
 # the legal ratio sets of the input divider D, multiplier M and output divider O.
 DOCUMENTED = {
-    # Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide (from memory)
+    # Lattice DS1040 v3.4, sysCLOCK PLL Timing (f_IN, f_OUT, f_VCO, f_PFD) and sysCLOCK
+    # PLLs ("output divider ... 1 to 6"); DIVR/DIVF widths of the SB_PLL40_CORE declaration
     "ice40": dict(fin=("10", "133"), pfd=("10", "133"), vco=("533", "1066"), out=("16", "275"),
                   D=range(1, 17), M=range(1, 129), O=[2, 4, 8, 16, 32, 64], feedback="vco"),
-    # Lattice FPGA-TN-02200 (TN1263) / DS1044, ECP5 EHXPLLL: input, VCO, output and
-    # divider ranges as quoted from the data sheet's PLL timing table; PFD from memory
-    "ecp5": dict(fin=("8", "400"), pfd=("3.125", "400"), vco=("400", "800"), out=("3.125", "400"),
+    # Lattice FPGA-TN-02200 (TN1263) / DS1044, ECP5 EHXPLLL: input, PFD, VCO, output
+    # and divider ranges as quoted from the data sheet's sysCLOCK PLL timing table
+    "ecp5": dict(fin=("8", "400"), pfd=("10", "400"), vco=("400", "800"), out=("3.125", "400"),
                  D=range(1, 129), M=range(1, 129), O=range(1, 129), feedback="output"),
-    # Xilinx UG472 attribute ranges, DS181 Artix-7 -1 (from memory)
+    # Xilinx UG472 attribute ranges, as in Xilinx's unisim models MMCME2_ADV.v /
+    # PLLE2_ADV.v; input, PFD and VCO ranges of DS181 v1.27 tables 37-38 (-1), as
+    # quoted; output ranges from memory
     "xc7-mmcm": dict(fin=("10", "800"), pfd=("10", "450"), vco=("600", "1200"),
                      out=("4.69", "800"), D=range(1, 107),
                      M=[Fraction(n, 8) for n in range(16, 513)],
                      O=[Fraction(1)] + [Fraction(n, 8) for n in range(16, 1025)], feedback="vco"),
     "xc7-pll": dict(fin=("19", "800"), pfd=("19", "450"), vco=("800", "1600"), out=("6.25", "800"),
                     D=range(1, 57), M=range(2, 65), O=range(1, 129), feedback="vco"),
-    # Gowin UG286 rPLL, DS117 GW1N-9 class limits (from memory)
+    # Gowin rPLL divider ranges from Gowin's primitive declaration (as in Yosys
+    # techlibs/gowin/cells_sim.v); GW1NR-9 C6/I5 limits of DS117 table 4-21, as quoted
     "gowin": dict(fin=("3", "400"), pfd=("3", "400"), vco=("400", "1200"), out=("3.125", "600"),
                   D=range(1, 65), M=range(1, 65),
                   O=[2, 4, 8, 16, 32, 48, 64, 80, 96, 112, 128], feedback="output"),
     # Intel Cyclone IV handbook vol. 1 ch. 5 (counters 1-512) and vol. 3 table 1-25
-    # (PFD 5-325, VCO 600-1300 MHz, as quoted); C8 input/output limit 402.5 MHz from memory
+    # (PFD 5-325, VCO 600-1300 MHz, as quoted); Cyclone 10 LP Device Datasheet, PLL
+    # Specifications: PFD 5-325, VCO 600-1300 MHz, -C8 input up to 472.5 MHz; the
+    # C8 limit of 402.5 MHz used on input and output is from memory
     "cyclone": dict(fin=("5", "402.5"), pfd=("5", "325"), vco=("600", "1300"),
                     out=(None, "402.5"), D=range(1, 513), M=range(1, 513), O=range(1, 513),
                     feedback="vco"),
@@ -115,7 +123,8 @@ def test_vendor_parameter_encodings() -> None:
     assert 2 ** p["DIVQ"] == s.output_ratio
     # FILTER_RANGE for a 12 MHz PFD is 1 (TN1251 table: 10-17 MHz, from memory)
     assert s.f_pfd == mhz("12") and p["FILTER_RANGE"] == 1
-    # Gowin (UG286, from memory): IDIV_SEL = D - 1, FBDIV_SEL = M - 1, ODIV_SEL = O.
+    # Gowin rPLL declaration ("0:1, 1:2 ... 63:64"): IDIV_SEL = D - 1, FBDIV_SEL = M - 1;
+    # ODIV_SEL = O ("2/4/8/16/32/48/64/80/96/112/128").
     g = solve(FAMILIES["gowin"], mhz("27"), mhz("74.25"))[0]
     q = g.parameters()
     assert (q["IDIV_SEL"] + 1, q["FBDIV_SEL"] + 1, q["ODIV_SEL"]) == (
@@ -178,9 +187,14 @@ def test_no_legal_setting_is_closer(key: str, board: str, pixel: str) -> None:
 
 def test_exact_clocks_from_27_mhz() -> None:
     """74.25 MHz = 27 MHz x 11 / 4 exactly: the trade's reason for 27 MHz video oscillators."""
-    for key in ("ecp5", "xc7-mmcm", "xc7-pll", "gowin", "cyclone"):
+    for key in ("xc7-mmcm", "xc7-pll", "gowin", "cyclone"):
         best = solve(FAMILIES[key], mhz("27"), mhz("74.25"))[0]
         assert best.f_out == mhz("74.25"), key
+    # ECP5 with feedback from CLKOP: the output is 27 MHz x CLKFB_DIV / CLKI_DIV, and
+    # CLKI_DIV = 4 would put the PFD at 6.75 MHz, under the data sheet's 10 MHz; with
+    # CLKI_DIV 1 or 2 the nearest are 27 x 5 / 2 = 67.5 and 27 x 3 = 81 MHz.
+    ecp5 = solve(FAMILIES["ecp5"], mhz("27"), mhz("74.25"))[0]
+    assert ecp5.f_pfd >= mhz("10") and ecp5.f_out in (mhz("67.5"), mhz("81"))
 
 
 def test_640x480_at_25_000_mhz_is_0_7_percent_slow() -> None:

@@ -18,7 +18,8 @@ from synccore.schema import json_schema
 
 MHZ = 10**6
 
-# VESA DMT 640x480@60 (from memory): 25.175 MHz, 800 x 525 total, both syncs negative.
+# VESA DMT 640x480@60 (DMT ID 04h, as reproduced in the Linux kernel's drm_dmt_modes[],
+# drivers/gpu/drm/drm_edid.c): 25.175 MHz, 800 x 525 total, both syncs negative.
 DMT_640 = """\
 name: vga
 pixel_clock_hz: 25.175 MHz
@@ -164,7 +165,8 @@ def test_missing_board_clock_is_one_line(tmp_path: Path) -> None:
 
 
 def test_input_outside_the_range_says_so(tmp_path: Path) -> None:
-    # PLLE2 input 19-800 MHz (DS181, from memory): 12 MHz is too slow
+    # PLLE2 input at least 19 MHz (CLKIN_FREQ_MIN in Xilinx's unisim model PLLE2_ADV.v):
+    # 12 MHz is too slow
     code, out, _ = run("clock", write(tmp_path, DMT_640), "--board-clock", "12MHz",
                        "--family", "xc7-pll")  # fmt: skip
     assert code == 0
@@ -245,7 +247,8 @@ def test_adjustment_through_a_pll_uses_a_legal_setting(tmp_path: Path) -> None:
     assert code == 0 and data["within_tolerance"] is False
     adj = data["adjustment"]
     p = adj["setting"]["parameters"]
-    # TN1251 (from memory): f_out = f_in * (DIVF + 1) / ((DIVR + 1) * 2**DIVQ), VCO 533-1066 MHz
+    # f_out = f_in * (DIVF + 1) / ((DIVR + 1) * 2**DIVQ) (TN1251, from memory);
+    # VCO 533-1066 MHz (DS1040 v3.4, sysCLOCK PLL Timing)
     f_in = Fraction(25 * MHZ)
     vco = f_in * (p["DIVF"] + 1) / (p["DIVR"] + 1)
     assert 533 * MHZ <= vco <= 1066 * MHZ

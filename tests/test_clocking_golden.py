@@ -19,7 +19,7 @@ from synccore.clocking.plan import make_plan
 
 GOLDEN = Path(__file__).parent / "golden" / "clocking"
 
-# VESA DMT 640x480@60 (from memory)
+# VESA DMT 640x480@60 (DMT ID 04h, as in the Linux kernel's drm_dmt_modes[])
 DMT_640 = """\
 name: vga
 pixel_clock_hz: 25.175 MHz

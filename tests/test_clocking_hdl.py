@@ -30,7 +30,7 @@ pytestmark = pytest.mark.sim
 
 MHZ = 10**6
 
-# VESA DMT 640x480@60 (from memory)
+# VESA DMT 640x480@60 (DMT ID 04h, as in the Linux kernel's drm_dmt_modes[])
 DMT_640 = """\
 name: vga
 pixel_clock_hz: 25.175 MHz
@@ -38,7 +38,8 @@ core: {clock_enable: true}
 horizontal: {active: 640, front_porch: 16, sync: 96, back_porch: 48, sync_polarity: negative}
 vertical: {active: 480, front_porch: 10, sync: 2, back_porch: 33, sync_polarity: negative}
 """
-# CTA-861 / VESA DMT 1280x720@60 (from memory): 74.25 MHz, 1650 x 750 total
+# CTA-861 VIC 4 / VESA DMT ID 55h, 1280x720@60, as in the Linux kernel's edid_cea_modes_1[]
+# and drm_dmt_modes[] (drivers/gpu/drm/drm_edid.c): 74.25 MHz, 1650 x 750 total
 HD_720 = """\
 name: hd
 pixel_clock_hz: 74.25 MHz

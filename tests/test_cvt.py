@@ -89,8 +89,10 @@ def test_cvt_rb_1920x1080_60() -> None:
 
 
 def test_cvt_vsync_encodes_aspect_ratio() -> None:
-    # VESA CVT 1.2, vertical sync width by aspect ratio (from memory):
-    # 4:3 → 4, 16:9 → 5, 16:10 → 6, 5:4 → 7, 15:9 → 7, other → 10.
+    # VESA CVT 1.2, vertical sync width by aspect ratio: 4:3 → 4, 16:10 → 6 and
+    # 15:9 → 7 as the CVT-derived DMT entries show them (DMT IDs 2Ah 1400x1050, 1Ch
+    # 1280x800, 17h 1280x768 in the kernel's drm_dmt_modes[]); 16:9 → 5, 5:4 → 7 and
+    # other → 10 from memory.
     assert formulas.cvt_vsync_lines(1024, 768) == 4
     assert formulas.cvt_vsync_lines(1920, 1080) == 5
     assert formulas.cvt_vsync_lines(1920, 1200) == 6

@@ -3,7 +3,8 @@
 The library entries' own figures (VESA DMT, CTA-861, as stored in synccore's
 mode table) give the sync edges; the detector must name each entry back.  The
 faulty cores are the DMT 640x480@60 timing (DMT ID 04h: 640 16 96 48 /
-480 10 2 33, negative/negative, 25.175 MHz; from memory, VESA DMT) with one
+480 10 2 33, negative/negative, 25.175 MHz; VESA DMT as reproduced in the Linux
+kernel's drm_dmt_modes[], drivers/gpu/drm/drm_edid.c) with one
 porch pixel moved, or a polarity flipped.
 """
 

@@ -108,15 +108,24 @@ class Family:
 
 
 # --------------------------------------------------------------------- iCE40
-# Lattice TN1251 "iCE40 sysCLOCK PLL Design and Usage Guide" (from memory):
-# F_REFERENCECLK 10-133 MHz, F_PFD 10-133 MHz, F_VCO 533-1066 MHz,
-# F_PLLOUT 16-275 MHz; DIVR 4 bits (divide 1-16), DIVF 7 bits (multiply
-# 1-128), DIVQ 3 bits, VCO divided by 2**DIVQ with DIVQ 1-6 in SIMPLE feedback.
+# Lattice TN1251 (now FPGA-TN-02052) "iCE40 sysCLOCK PLL Design and Usage Guide"
+# and the iCE40 LP/HX Family Data Sheet DS1040, SB_PLL40_CORE in SIMPLE feedback.
+# DS1040 version 3.4 (October 2017), DC and Switching Characteristics, "sysCLOCK
+# PLL Timing": f_IN (REFERENCECLK) 10-133 MHz, f_OUT (PLLOUT) 16-275 MHz, f_VCO
+# 533-1066 MHz, f_PFD 10-133 MHz (the iCE40 UltraPlus data sheet FPGA-DS-02008,
+# table 4.22, gives the same four ranges); its Architecture section, "sysCLOCK
+# Phase Locked Loops": "The output divider can have a value from 1 to 6" (DIVQ).
+# The widths of DIVR (4 bits), DIVF (7 bits), DIVQ (3 bits) and FILTER_RANGE
+# (3 bits) are those of the primitive's parameter declarations in Lattice's
+# SiliconBlue model sb_ice_syn.v and in Yosys techlibs/ice40/cells_sim.v.
+# From memory (TN1251): DIVR = divide - 1, DIVF = multiply - 1, and the VCO
+# divided by 2**DIVQ.
 ICE40 = Family(
     key="ice40",
     title="Lattice iCE40 (SB_PLL40_CORE, SIMPLE feedback)",
     primitive="SB_PLL40_CORE",
-    document="Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide (from memory)",
+    document="Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide; DS1040 iCE40 LP/HX "
+    "data sheet, sysCLOCK PLL Timing",
     input_range=Range(_mhz("10"), _mhz("133")),
     pfd_range=Range(_mhz("10"), _mhz("133")),
     vco_range=Range(_mhz("533"), _mhz("1066")),
@@ -151,7 +160,10 @@ def ice40_filter_range(f_pfd: Fraction) -> int:
 # Design and Usage Guide" and the ECP5 family data sheet DS1044, sysCLOCK PLL
 # timing: f_IN 8-400 MHz, f_OUT 3.125-400 MHz, f_VCO 400-800 MHz and CLKI_DIV,
 # CLKFB_DIV, CLKOP_DIV 1-128 (checked against a published quotation of the data
-# sheet's table, not the data sheet itself); f_PFD 3.125-400 MHz from memory.
+# sheet's table, not the data sheet itself).  f_PFD 10-400 MHz: the data
+# sheet's "fPFD Phase Detector Input Frequency 10 400 MHz" row as quoted, with
+# the f_IN, f_OUT and f_VCO rows above, in a comment of a public EHXPLLL
+# wrapper; the 3.125 MHz minimum used before was recalled, not read.
 # With FEEDBK_PATH "CLKOP" the output is f_IN * CLKFB_DIV / CLKI_DIV and the VCO
 # runs at f_OUT * CLKOP_DIV.
 ECP5 = Family(
@@ -159,9 +171,9 @@ ECP5 = Family(
     title="Lattice ECP5 (EHXPLLL, feedback from CLKOP)",
     primitive="EHXPLLL",
     document="Lattice FPGA-TN-02200 (TN1263) ECP5 sysCLOCK PLL/DLL guide; DS1044 ECP5 data "
-    "sheet (PFD limit from memory)",
+    "sheet, sysCLOCK PLL timing (as quoted)",
     input_range=Range(_mhz("8"), _mhz("400")),
-    pfd_range=Range(_mhz("3.125"), _mhz("400")),
+    pfd_range=Range(_mhz("10"), _mhz("400")),
     vco_range=Range(_mhz("400"), _mhz("800")),
     output_range=Range(_mhz("3.125"), _mhz("400")),
     input_divider=Divider("CLKI_DIV", _ints(1, 128)),
@@ -171,21 +183,31 @@ ECP5 = Family(
 )
 
 # ------------------------------------------------------------------ 7-series
-# Xilinx UG472 "7 Series FPGAs Clocking Resources" (attribute ranges, from
-# memory): MMCME2 DIVCLK_DIVIDE 1-106, CLKFBOUT_MULT_F 2.000-64.000 in steps
-# of 0.125, CLKOUT0_DIVIDE_F 1 or 2.000-128.000 in steps of 0.125; PLLE2
-# DIVCLK_DIVIDE 1-56, CLKFBOUT_MULT 2-64, CLKOUT0_DIVIDE 1-128.
-# Xilinx DS181 "Artix-7 FPGAs Data Sheet: DC and AC Switching Characteristics",
-# speed grade -1 (from memory): MMCM_FINMIN/MAX 10/800 MHz, MMCM_FPFDMIN/MAX
-# 10/450 MHz, MMCM_FVCOMIN/MAX 600/1200 MHz, MMCM_FOUTMIN/MAX 4.69/800 MHz;
-# PLL_FINMIN/MAX 19/800 MHz, PLL_FPFDMIN/MAX 19/450 MHz, PLL_FVCOMIN/MAX
-# 800/1600 MHz, PLL_FOUTMIN/MAX 6.25/800 MHz.  Kintex-7 (DS182) allows more.
+# Xilinx UG472 "7 Series FPGAs Clocking Resources" attribute ranges, checked
+# against Xilinx's unisim simulation models MMCME2_ADV.v and PLLE2_ADV.v
+# (Vivado unified simulation library: M_MIN/M_MAX, D_MAX, O_MAX and their
+# range checks): MMCME2 DIVCLK_DIVIDE 1-106, CLKFBOUT_MULT_F 2.000-64.000,
+# CLKOUT0_DIVIDE_F 1 or 2.000-128.000, both in steps of 0.125 (the step as
+# UG572 states it for the UltraScale MMCM; for UG472 from memory); PLLE2
+# DIVCLK_DIVIDE 1-56, CLKFBOUT_MULT 2-64, CLKOUT0_DIVIDE 1-128.  The same
+# models carry one set of frequency limits for all grades: minima MMCM CLKIN
+# and PFD 10 MHz, VCO 600 MHz, PLL CLKIN and PFD 19 MHz, VCO 800 MHz (the
+# same as DS181 below); maxima 1066/550/1600 and 1066/550/2133 MHz, beyond -1.
+# Xilinx DS181 "Artix-7 FPGAs Data Sheet: DC and AC Switching Characteristics"
+# v1.27, table 37 "MMCM Specification" and table 38 "PLL Specification", -1
+# (and -1LI) column, as quoted in public design notes: MMCM_FINMIN/MAX 10/800 MHz,
+# MMCM_FPFDMIN/MAX 10/450 MHz, MMCM_FVCOMIN/MAX 600/1200 MHz; PLL_FINMIN/MAX
+# 19/800 MHz, PLL_FPFDMIN/MAX 19/450 MHz, PLL_FVCOMIN/MAX 800/1600 MHz (the
+# Zynq-7000 data sheet DS187, table 72, is quoted with MMCM_FVCOMAX 1200 MHz
+# for -1, 1440 for -2, 1600 for -3).  The output ranges are from memory:
+# MMCM_FOUTMIN/MAX 4.69/800 MHz (the Kintex-7 figures quoted from DS182),
+# PLL_FOUTMIN/MAX 6.25/800 MHz.  Kintex-7 (DS182) allows more.
 XC7_MMCM = Family(
     key="xc7-mmcm",
     title="Xilinx 7-series MMCM (MMCME2_BASE), speed grade -1",
     primitive="MMCME2_BASE",
-    document="Xilinx UG472 7 Series Clocking Resources; DS181 Artix-7 switching "
-    "characteristics, -1 (from memory)",
+    document="Xilinx UG472 7 Series Clocking Resources and unisim models (ratios); DS181 "
+    "Artix-7 tables 37-38, -1 (as quoted; output range from memory)",
     input_range=Range(_mhz("10"), _mhz("800")),
     pfd_range=Range(_mhz("10"), _mhz("450")),
     vco_range=Range(_mhz("600"), _mhz("1200")),
@@ -200,8 +222,8 @@ XC7_PLL = Family(
     key="xc7-pll",
     title="Xilinx 7-series PLL (PLLE2_BASE), speed grade -1",
     primitive="PLLE2_BASE",
-    document="Xilinx UG472 7 Series Clocking Resources; DS181 Artix-7 switching "
-    "characteristics, -1 (from memory)",
+    document="Xilinx UG472 7 Series Clocking Resources and unisim models (ratios); DS181 "
+    "Artix-7 tables 37-38, -1 (as quoted; output range from memory)",
     input_range=Range(_mhz("19"), _mhz("800")),
     pfd_range=Range(_mhz("19"), _mhz("450")),
     vco_range=Range(_mhz("800"), _mhz("1600")),
@@ -213,17 +235,23 @@ XC7_PLL = Family(
 )
 
 # --------------------------------------------------------------------- Gowin
-# Gowin UG286 "Gowin Clock User Guide", rPLL (from memory): CLKOUT =
-# CLKIN * (FBDIV_SEL + 1) / (IDIV_SEL + 1), VCO = CLKOUT * ODIV_SEL; IDIV_SEL
-# and FBDIV_SEL 0-63, ODIV_SEL one of 2, 4, 8, 16, 32, 48, 64, 80, 96, 112, 128.
-# Frequency limits of the GW1N(R)-9 class, C6/I5 (Gowin DS117 data sheet, from
-# memory): CLKIN 3-400 MHz, PFD 3-400 MHz, VCO 400-1200 MHz, CLKOUT 3.125-600 MHz.
-# Other Gowin devices have other VCO limits: check the device's data sheet.
+# Gowin UG286 "Gowin Clock User Guide", rPLL: CLKOUT = CLKIN * (FBDIV_SEL + 1)
+# / (IDIV_SEL + 1), VCO = CLKOUT * ODIV_SEL.  The ranges are those of Gowin's
+# rPLL primitive declaration (parameter comments "IDIV_SEL 0:1, 1:2 ... 63:64",
+# the same for FBDIV_SEL, "ODIV_SEL 2/4/8/16/32/48/64/80/96/112/128"), as
+# reproduced in Yosys techlibs/gowin/cells_sim.v.  Frequency limits of the
+# GW1N(R)-9 class, C6/I5: CLKIN 3-400 MHz, PFD 3-400 MHz, VCO 400-1200 MHz,
+# CLKOUT 3.125-600 MHz, as Gowin DS117-2.9.3E (GW1NR data sheet) table 4-21 is
+# quoted in public project notes (the same for C7/I6; the slower C5/I4 grade has
+# CLKIN and PFD 3-320, VCO 320-960, CLKOUT 2.5-480 MHz, so this entry holds for
+# C6/I5 and faster parts only).  The GW1N data sheet DS100 was not seen.  Other
+# Gowin devices have other VCO limits: check the device's data sheet.
 GOWIN = Family(
     key="gowin",
     title="Gowin GW1N/GW1NR (rPLL), GW1N-9 class limits",
     primitive="rPLL",
-    document="Gowin UG286 Clock User Guide; DS117 GW1N data sheet (from memory)",
+    document="Gowin UG286 Clock User Guide; DS117 GW1NR data sheet table 4-21, C6/I5 "
+    "(as quoted)",
     input_range=Range(_mhz("3"), _mhz("400")),
     pfd_range=Range(_mhz("3"), _mhz("400")),
     vco_range=Range(_mhz("400"), _mhz("1200")),
@@ -239,19 +267,24 @@ GOWIN = Family(
 # -------------------------------------------------------------------- Intel
 # Intel "Cyclone IV Device Handbook" vol. 1 ch. 5 (clock networks and PLLs):
 # f_out = f_in * M / (N * K * C), counters N, M and C 1-512, K 1 or 2; vol. 3
-# (device data sheet) table 1-25 PLL specifications: f_IN 5 MHz up to 472.5 MHz
-# depending on the speed grade, f_INPFD 5-325 MHz, f_VCO 600-1300 MHz (checked
-# against a published quotation of the handbook's table).  The 402.5 MHz input
-# and output limits used here for grade C8 are from memory.  Cyclone 10 LP data sheet states
-# the same PLL figures (from memory).  The post-scale counter K (1 or 2) is
-# left at 1.  ALTPLL takes the ratio (clk0_multiply_by / clk0_divide_by);
-# Quartus picks the counters, which may differ from ours but give the same ratio.
+# (device data sheet) table 1-25 PLL specifications: f_IN 5 MHz up to
+# 265-472.5 MHz depending on the speed grade, f_INPFD 5-325 MHz, f_VCO
+# 600-1300 MHz (checked against a published quotation of the handbook's
+# table).  Intel Cyclone 10 LP Device Datasheet (Intel document 683251), "PLL
+# Specifications", read: f_IN 5-472.5 MHz for -C6, -C8, -I7 and -A7 (362 MHz
+# for -I8), f_INPFD 5-325 MHz, f_VCO 600-1300 MHz, f_OUT_EXT up to 472.5 MHz.
+# The 402.5 MHz limit used here for grade C8 on the output (to the global
+# clock network) is from memory, and so is its use on the input: lower than
+# Cyclone 10 LP's 472.5 MHz, kept because the Cyclone IV C8 input limit was
+# not seen.  The post-scale counter K (1 or 2) is left at 1.  ALTPLL takes the
+# ratio (clk0_multiply_by / clk0_divide_by); Quartus picks the counters, which
+# may differ from ours but give the same ratio.
 CYCLONE = Family(
     key="cyclone",
     title="Intel Cyclone IV / Cyclone 10 LP (ALTPLL), speed grade C8",
     primitive="altpll",
     document="Intel Cyclone IV Device Handbook vol. 1 ch. 5 and vol. 3 table 1-25; "
-    "Cyclone 10 LP data sheet (C8 limits from memory)",
+    "Cyclone 10 LP Device Datasheet, PLL Specifications (C8 402.5 MHz limits from memory)",
     input_range=Range(_mhz("5"), _mhz("402.5")),
     pfd_range=Range(_mhz("5"), _mhz("325")),
     vco_range=Range(_mhz("600"), _mhz("1300")),

@@ -3,7 +3,7 @@
 //
 // board clock          50.000 MHz
 // family               Intel Cyclone IV / Cyclone 10 LP (ALTPLL), speed grade C8
-// limits from          Intel Cyclone IV Device Handbook vol. 1 ch. 5 and vol. 3 table 1-25; Cyclone 10 LP data sheet (C8 limits from memory)
+// limits from          Intel Cyclone IV Device Handbook vol. 1 ch. 5 and vol. 3 table 1-25; Cyclone 10 LP Device Datasheet, PLL Specifications (C8 402.5 MHz limits from memory)
 // pixel clock wanted   25.175 MHz
 // serialiser clocks    TMDS bit clock x10 = 251.750 MHz, DDR x5 = 125.875 MHz
 // setting              clk0_multiply_by=145 clk0_divide_by=288 (counters N=6 M=145 C0=48)  PFD 8.333 MHz  VCO 1.208 GHz  out 25.174 MHz

@@ -3,7 +3,7 @@
 --
 -- board clock          25.000 MHz
 -- family               Lattice ECP5 (EHXPLLL, feedback from CLKOP)
--- limits from          Lattice FPGA-TN-02200 (TN1263) ECP5 sysCLOCK PLL/DLL guide; DS1044 ECP5 data sheet (PFD limit from memory)
+-- limits from          Lattice FPGA-TN-02200 (TN1263) ECP5 sysCLOCK PLL/DLL guide; DS1044 ECP5 data sheet, sysCLOCK PLL timing (as quoted)
 -- pixel clock wanted   25.175 MHz
 -- serialiser clocks    TMDS bit clock x10 = 251.750 MHz, DDR x5 = 125.875 MHz
 -- setting              CLKI_DIV=1 CLKFB_DIV=1 CLKOP_DIV=32  PFD 25.000 MHz  VCO 800.000 MHz  out 25.000 MHz

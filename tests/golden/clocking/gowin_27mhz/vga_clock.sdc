@@ -3,7 +3,7 @@
 #
 # board clock          27.000 MHz
 # family               Gowin GW1N/GW1NR (rPLL), GW1N-9 class limits
-# limits from          Gowin UG286 Clock User Guide; DS117 GW1N data sheet (from memory)
+# limits from          Gowin UG286 Clock User Guide; DS117 GW1NR data sheet table 4-21, C6/I5 (as quoted)
 # pixel clock wanted   25.175 MHz
 # serialiser clocks    TMDS bit clock x10 = 251.750 MHz, DDR x5 = 125.875 MHz
 # setting              IDIV_SEL=8 FBDIV_SEL=7 ODIV_SEL=48  PFD 3.000 MHz  VCO 1.152 GHz  out 24.000 MHz

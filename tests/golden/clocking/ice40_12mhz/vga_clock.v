@@ -3,7 +3,7 @@
 //
 // board clock          12.000 MHz
 // family               Lattice iCE40 (SB_PLL40_CORE, SIMPLE feedback)
-// limits from          Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide (from memory)
+// limits from          Lattice TN1251, iCE40 sysCLOCK PLL Design and Usage Guide; DS1040 iCE40 LP/HX data sheet, sysCLOCK PLL Timing
 // pixel clock wanted   25.175 MHz
 // serialiser clocks    TMDS bit clock x10 = 251.750 MHz, DDR x5 = 125.875 MHz
 // setting              DIVR=0 DIVF=66 DIVQ=5 FILTER_RANGE=1  PFD 12.000 MHz  VCO 804.000 MHz  out 25.125 MHz

@@ -3,7 +3,7 @@
 --
 -- board clock          100.000 MHz
 -- family               Xilinx 7-series MMCM (MMCME2_BASE), speed grade -1
--- limits from          Xilinx UG472 7 Series Clocking Resources; DS181 Artix-7 switching characteristics, -1 (from memory)
+-- limits from          Xilinx UG472 7 Series Clocking Resources and unisim models (ratios); DS181 Artix-7 tables 37-38, -1 (as quoted; output range from memory)
 -- pixel clock wanted   25.175 MHz
 -- serialiser clocks    TMDS bit clock x10 = 251.750 MHz, DDR x5 = 125.875 MHz
 -- setting              DIVCLK_DIVIDE=1 CLKFBOUT_MULT_F=9 CLKOUT0_DIVIDE_F=35.750  PFD 100.000 MHz  VCO 900.000 MHz  out 25.175 MHz
