@@ -29,7 +29,8 @@ HARDWARE_CAUTION = (
 
 
 def _console() -> Console:
-    return Console(highlight=False, soft_wrap=True)
+    # Piped or captured output gets room for the verification table's engine columns.
+    return Console(highlight=False, soft_wrap=True, width=None if sys.stdout.isatty() else 140)
 
 
 def _fail(err: SpecError) -> None:

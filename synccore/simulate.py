@@ -55,6 +55,7 @@ class SimResult:
     failed: int
     log: Path
     run_dir: Path
+    build_dir: Path
 
     @property
     def passed(self) -> bool:
@@ -130,7 +131,8 @@ def run_bench(
     key = hashlib.sha256(
         json.dumps([simulator, build_args, waves, top, sorted(files.items())]).encode()
     ).hexdigest()[:24]
-    build_dir = cache_dir() / f"{simulator}-{key}"
+    # Wave files land in the build folder: a run that records them builds privately.
+    build_dir = run_dir / "build" if waves else cache_dir() / f"{simulator}-{key}"
 
     run_dir.mkdir(parents=True, exist_ok=True)
     spec_json = run_dir / "spec.json"
@@ -177,9 +179,9 @@ def run_bench(
             if pytest_test is not None:
                 os.environ["PYTEST_CURRENT_TEST"] = pytest_test
     if not results.is_file():
-        return SimResult(0, 1, log, run_dir)
+        return SimResult(0, 1, log, run_dir, build_dir)
     tests, failed = get_results(results)
-    return SimResult(tests, failed, log, run_dir)
+    return SimResult(tests, failed, log, run_dir, build_dir)
 
 
 @contextlib.contextmanager

@@ -132,7 +132,8 @@ def run_engine(
                 poller.join()
         run.log = result.log
         if waves:
-            run.waves += sorted(p for p in result.run_dir.iterdir()
+            run.waves += sorted(p for folder in (result.run_dir, result.build_dir)
+                                if folder.is_dir() for p in folder.iterdir()
                                 if p.suffix in (".fst", ".vcd", ".ghw"))  # fmt: skip
         if not result.passed or not events_file.is_file():
             run.error = f"simulation failed; see {result.log}"
