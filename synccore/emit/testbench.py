@@ -14,6 +14,7 @@ from ..model import Timing
 from ..spec import Spec
 from ._context import GENERATED_MARK, CoreContext, build_context
 from ._jinja import environment
+from .harness import LFSR_SEED
 
 DEFAULT_FRAMES = 2
 RESET_CYCLES = 4
@@ -39,6 +40,7 @@ class TestbenchContext:
     reset_cycles: int
     max_reported: int
     frames: int
+    lfsr_seed: int
 
 
 def testbench_context(spec: Spec, frames: int = DEFAULT_FRAMES) -> TestbenchContext:
@@ -73,6 +75,7 @@ def testbench_context(spec: Spec, frames: int = DEFAULT_FRAMES) -> TestbenchCont
         reset_cycles=RESET_CYCLES,
         max_reported=MAX_REPORTED,
         frames=frames,
+        lfsr_seed=LFSR_SEED,
     )
 
 
