@@ -186,7 +186,7 @@ def _run_verify(spec: Spec, *, engines: list[str] | None, frames: int, waves: bo
     from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
 
     from .tools import INSTALL_HINT
-    from .verify import ENGINE_LANGUAGE, available_engines, verify
+    from .verify import ENGINE_LANGUAGE, available_engines, cocotb_missing, verify
 
     found = available_engines()
     if engines is None:
@@ -198,6 +198,8 @@ def _run_verify(spec: Spec, *, engines: list[str] | None, frames: int, waves: bo
     if missing:
         for e in missing:
             hint = INSTALL_HINT.get(e, "install the PyPI package 'amaranth'")
+            if e in INSTALL_HINT and cocotb_missing():
+                hint = "the simulators run through cocotb: pip install 'synccore[sim]'"
             click.echo(f"engine {e!r} not found: {hint}", err=True)
         sys.exit(2)
     t = Timing(spec)

@@ -55,9 +55,16 @@ class Report:
         return out + failures(self.rows)
 
 
+def cocotb_missing() -> bool:
+    """True when cocotb (needed to run the real simulators) is not installed."""
+    import importlib.util
+
+    return importlib.util.find_spec("cocotb_tools") is None
+
+
 def available_engines() -> list[str]:
     """Engines that can run here, in the order of :data:`ENGINES`."""
-    out = [name for name in SIMULATORS if find(name) is not None]
+    out = [] if cocotb_missing() else [name for name in SIMULATORS if find(name) is not None]
     try:
         import amaranth  # noqa: F401
     except ImportError:  # pragma: no cover - amaranth is a declared dependency of the extra
