@@ -23,6 +23,9 @@ def test_wheel_carries_templates_and_benches(tmp_path: Path) -> None:
     assert "synccore/templates/core.v.j2" in names
     assert "synccore/templates/core.vhd.j2" in names
     assert "synccore/sim/contract_bench.py" in names
+    assert "synccore/sim/measure_bench.py" in names
+    assert "synccore/templates/_bench.v.j2" in names and "synccore/templates/harness.vhd.j2" in names
+    assert "synccore/data/modes.yaml" in names
     # Installed without the checkout around it, it still finds its templates.
     target = tmp_path / "site"
     with zipfile.ZipFile(wheel) as z:
