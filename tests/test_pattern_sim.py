@@ -51,9 +51,34 @@ def expected_image(pattern: str, w: int, h: int) -> Image.Image:
             for left in range(0, w, 16):
                 if (top // 16 + left // 16) % 2:
                     d.rectangle([left, top, min(left + 15, w - 1), min(top + 15, h - 1)], fill=WHITE)
+    elif pattern == "gradient":
+        return gradient_image(w, h, (3, 3, 2))
     else:
         raise AssertionError(pattern)
     return img
+
+
+def gradient_image(w: int, h: int, bits: tuple[int, int, int]) -> Image.Image:
+    """Red and blue rise with x, green with y (the definition), as three channels of lines."""
+
+    def level(coord: int, coord_bits: int, channel_bits: int) -> int:
+        # The coordinate's top bits (zero-padded below when it has fewer bits than the channel),
+        # then the display's 8-bit value round(level * 255 / (2**bits - 1)).
+        top = (coord >> (coord_bits - channel_bits) if coord_bits >= channel_bits
+               else coord << (channel_bits - coord_bits))  # fmt: skip
+        full = (1 << channel_bits) - 1
+        return int(top * 255 / full + 0.5)
+
+    xb, yb = max(1, (w - 1).bit_length()), max(1, (h - 1).bit_length())
+    channels = []
+    for index, (coord_bits, vertical) in enumerate(((xb, True), (yb, False), (xb, True))):
+        plane = Image.new("L", (w, h), 0)
+        draw = ImageDraw.Draw(plane)
+        for c in range(w if vertical else h):
+            value = level(c, coord_bits, bits[index])
+            draw.line([c, 0, c, h - 1] if vertical else [0, c, w - 1, c], fill=value)
+        channels.append(plane)
+    return Image.merge("RGB", channels)
 
 
 def _check(spec_text: str, pattern: str, engine: str, tmp_path: Path) -> None:
@@ -73,7 +98,7 @@ def _check(spec_text: str, pattern: str, engine: str, tmp_path: Path) -> None:
 
 
 @pytest.mark.sim
-@pytest.mark.parametrize("pattern", ["bars", "grid", "edges", "checker"])
+@pytest.mark.parametrize("pattern", ["bars", "grid", "edges", "checker", "gradient"])
 @pytest.mark.parametrize("engine", ["icarus", "ghdl"])
 def test_png_equals_definition(engine: str, pattern: str, tmp_path: Path,
                                need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
@@ -81,7 +106,7 @@ def test_png_equals_definition(engine: str, pattern: str, tmp_path: Path,
     _check(SMALL, pattern, engine, tmp_path)
 
 
-@pytest.mark.parametrize("pattern", ["bars", "grid", "edges", "checker"])
+@pytest.mark.parametrize("pattern", ["bars", "grid", "edges", "checker", "gradient"])
 @pytest.mark.parametrize("engine", ["builtin", "model"])
 def test_png_without_hdl_simulator(engine: str, pattern: str, tmp_path: Path) -> None:
     """builtin: the Amaranth model of the design; model: the pins from the timing model."""
