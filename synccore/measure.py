@@ -228,17 +228,23 @@ def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
     # Per frame, from one frame's first de rise to the next: coordinates and strobes.
     by_adv = {e.adv: e for e in events}
     frame_firsts = [r for i, r in enumerate(rises) if i == 0 or r - rises[i - 1] > line_total]
+    lead = t.spec.core.lead if t.spec.core.lead > 1 else 0
     for start, stop in zip(frame_firsts, frame_firsts[1:], strict=False):
         runs = [(s, e) for s, e in de_runs if start <= s < stop]
         found["v_active"].add(len(runs))
-        rows = [by_adv[s].y for s, _ in runs]
-        firsts = {by_adv[s].x for s, _ in runs}
-        lasts = {by_adv[e].x_last for _, e in runs}
-        found["x_range"].add(f"{min(firsts)}..{max(lasts)}" if len(firsts) == 1 and len(lasts) == 1
-                             else f"{sorted(firsts)}..{sorted(lasts)}")  # fmt: skip
-        s = t.scale_shift  # with core.scale each row number repeats 2**s times
-        steady = rows == [((rows[0] << s) + i) >> s for i in range(len(rows))]
-        found["y_range"].add(f"{rows[0]}..{rows[-1]}" if steady else f"irregular {rows[:6]}")
+        # Right after reset a pixel pipeline of latency `lead` (the harness's delay line)
+        # still passes on the coordinates the core held in reset for lead - 1 pixels: the
+        # coordinates of a frame that begins that early are not judged.
+        if start > lead:
+            rows = [by_adv[s].y for s, _ in runs]
+            firsts = {by_adv[s].x for s, _ in runs}
+            lasts = {by_adv[e].x_last for _, e in runs}
+            found["x_range"].add(f"{min(firsts)}..{max(lasts)}"
+                                 if len(firsts) == 1 and len(lasts) == 1
+                                 else f"{sorted(firsts)}..{sorted(lasts)}")  # fmt: skip
+            s = t.scale_shift  # with core.scale each row number repeats 2**s times
+            steady = rows == [((rows[0] << s) + i) >> s for i in range(len(rows))]
+            found["y_range"].add(f"{rows[0]}..{rows[-1]}" if steady else f"irregular {rows[:6]}")
         found["line_start"].add((by_adv[stop].line_starts - by_adv[start].line_starts) % 65536)
         found["frame_start"].add((by_adv[stop].frame_starts - by_adv[start].frame_starts) % 65536)
         found["line_start_aligned"].add(

@@ -39,6 +39,8 @@ TIMINGS = {
     "reset_async_low": _small("t_ral", {"reset": "async_low", "lead": 1}),
     "lead1_line_align": _small("t_lead1", {"lead": 1, "vsync_align": "line"}),
     "lead3_ce": _small("t_lead3", {"lead": 3, "clock_enable": True}),
+    # a lead longer than two lines (48 cycles each): x/y start from a later line after reset
+    "lead_over_lines": _small("t_lead100", {"lead": 100}),
     "no_back_porch": timings.NO_BACK_PORCH,
     "tiny": timings.TINY,
     "all_options": timings.SMALL_ALL_OPTIONS,
