@@ -107,6 +107,16 @@ class Timing:
         return self.h_sync_start if self.spec.core.vsync_align == "hsync" else 0
 
     @property
+    def vsync_first(self) -> int:
+        """Position of the first vsync leading edge after reset."""
+        return self.v_sync_start * self.h_total + self.v_sync_at_h
+
+    @property
+    def vsync_cycles(self) -> int:
+        """Length of a vsync pulse in cycles."""
+        return self.spec.vertical.sync * self.h_total
+
+    @property
     def frame_cycles(self) -> int:
         return self.h_total * self.v_total
 
@@ -198,8 +208,7 @@ class Timing:
         h_on = self.h_sync_start <= h < self.h_sync_start + self.h_sync
         # vsync pulses start at (v_sync_start, v_sync_at_h) of every frame and last
         # `sync` lines; a pulse that would have begun before reset never shows.
-        first_start = self.v_sync_start * self.h_total + self.v_sync_at_h
-        pulse = self.spec.vertical.sync * self.h_total
+        first_start, pulse = self.vsync_first, self.vsync_cycles
         if q < first_start:
             v_on = False
         else:

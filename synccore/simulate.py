@@ -139,7 +139,6 @@ def run_bench(
     spec_json.write_text(json.dumps(to_dict(spec)))
     extra = build_env(tool, cache_dir())
     extra.update(env or {})
-    extra["SYNCCORE_SPEC"] = str(spec_json)
     extra["SYNCCORE_SPEC_JSON"] = str(spec_json)
     bench_dir = str(sim_dir())
     if bench_dir not in sys.path:

@@ -64,12 +64,12 @@ def cocotb_missing() -> bool:
 
 def available_engines() -> list[str]:
     """Engines that can run here, in the order of :data:`ENGINES`."""
+    import importlib.util
+
     out = [] if cocotb_missing() else [name for name in SIMULATORS if find(name) is not None]
-    try:
-        import amaranth  # noqa: F401
-    except ImportError:  # pragma: no cover - amaranth is a declared dependency of the extra
-        return out
-    return [*out, "builtin"]
+    if importlib.util.find_spec("amaranth") is not None:
+        out.append("builtin")
+    return out
 
 
 def _poll(path: Path, engine: str, progress: Progress, stop: threading.Event) -> None:

@@ -31,7 +31,7 @@ from .emit._jinja import environment
 from .emit.pattern import pattern_context
 from .model import Timing
 from .pattern import levels, picture_size
-from .simulate import cache_dir, locked
+from .simulate import VERILATOR_ARGS, cache_dir, locked
 from .spec import Spec
 from .tools import INSTALL_HINT, build_env, find
 
@@ -164,9 +164,8 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
                 build.mkdir(parents=True)
                 for name, text in files.items():
                     (build / name).write_text(text, encoding="utf-8")
-                _run(["verilator", "--binary", "--timing", "-Wno-fatal", "-O2", "-j", "2",
-                      "-CFLAGS", "-std=c++20 -fcoroutines", "--top-module", BENCH, "-Mdir", "obj",
-                      *names], build, build_env(tool, cache_dir()))  # fmt: skip
+                _run(["verilator", "--binary", *VERILATOR_ARGS, "-j", "2", "--top-module", BENCH,
+                      "-Mdir", "obj", *names], build, build_env(tool, cache_dir()))  # fmt: skip
         _run([str(binary), f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir, tool.env)
     if not screen.is_file():
         raise ViewError(f"{engine}: the bench wrote no {screen.name}")
