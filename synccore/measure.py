@@ -183,11 +183,12 @@ def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
         found["hsync_width"].add((e - s) * ppc)
     rises = [s for s, _ in de_runs]
     # Lines are told apart by hblank, which falls at every line start, active or not.
-    line_starts = [e for s, e in _pulses(events, "hblank", 1) if e is not None]
+    hblanks = _pulses(events, "hblank", 1)
+    line_starts = [e for _, e in hblanks if e is not None]
     periods = [b - a for a, b in zip(line_starts, line_starts[1:], strict=False)]
     line_total = max(set(periods), key=periods.count) if periods else 0
     found["line_total"].update(p * ppc for p in periods)
-    for b_start, b_end in _pulses(events, "hblank", 1):
+    for b_start, b_end in hblanks:
         if b_end is not None and b_start > 0:
             found["hblank_width"].add((b_end - b_start) * ppc)
     if line_total:
@@ -200,7 +201,7 @@ def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
         found["h_active"].add((e - s) * ppc)
     # Porches around every hsync pulse, active line or not: from the blanking start (hblank
     # rising) to the pulse, and from the pulse to the next line start (hblank falling).
-    blank_starts = [s for s, _ in _pulses(events, "hblank", 1) if s > 0]
+    blank_starts = [s for s, _ in hblanks if s > 0]
     for s, e in hs:
         before = [b for b in blank_starts if b <= s]
         if before and s - before[-1] < max(line_total, 1):
