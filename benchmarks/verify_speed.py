@@ -24,10 +24,10 @@ import time
 from pathlib import Path
 
 import synccore
-from synccore.emit.harness import HARNESS_TOP, render_harness
-from synccore.simulate import VERILATOR_ARGS
-from synccore.tools import find
-from synccore.verify import run_engine
+from synccore.emit.bench.harness import HARNESS_TOP, render_harness
+from synccore.verification.engines import run_engine
+from synccore.verification.simulate import VERILATOR_ARGS
+from synccore.verification.tools import find
 
 SPEC = """\
 name: bench_1080p

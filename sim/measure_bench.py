@@ -1,4 +1,4 @@
-"""Measurement bench: runs the harness of ``synccore.emit.harness`` to the requested length.
+"""Measurement bench: runs the harness of ``synccore.emit.bench.harness`` to the requested length.
 
 Runs inside the simulator (cocotb).  The clock lives in HDL and the harness
 itself writes an event line whenever hsync, vsync or de changes; Python wakes
@@ -19,9 +19,9 @@ from pathlib import Path
 import cocotb
 from cocotb.triggers import First, RisingEdge, Timer
 
-from synccore.measure import stop_count
 from synccore.model import Timing
 from synccore.spec import from_dict
+from synccore.verification.measure import stop_count
 
 CLOCK_NS = 10
 WORST_CE_SHARE = 0.25  # far below the harness's clock-enable share (3 of 4 cycles)

@@ -5,12 +5,13 @@ A YAML timing description is validated into a :class:`Spec`, derived into a
 as Verilog-2001 and VHDL cores.
 """
 
-from ._version import __version__
-from .emit import render_verilog, render_vhdl
-from .errors import Location, Problem, SpecError
-from .model import Outputs, Timing, timing
-from .schema import json_schema
-from .spec import Axis, CoreOptions, Spec, load, loads
+from synccore._version import __version__
+from synccore.emit import render_verilog, render_vhdl
+from synccore.errors import Location, Problem, SpecError
+from synccore.model import Outputs, Timing, timing
+from synccore.spec import Axis, CoreOptions, Spec
+from synccore.spec.schema import json_schema
+from synccore.timings import load, loads
 
 __all__ = [
     "Axis",

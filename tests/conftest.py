@@ -15,7 +15,7 @@ from pathlib import Path
 
 import pytest
 
-from synccore.tools import Tool, find
+from synccore.verification.tools import Tool, find
 
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES = sorted((ROOT / "examples").glob("*.yaml"))

@@ -6,7 +6,7 @@ import os
 import subprocess
 from pathlib import Path
 
-from synccore.tools import Tool
+from synccore.verification.tools import Tool
 
 GHDL_WARNINGS = ["-Wbinding", "-Wreserved", "-Wlibrary", "-Wbody", "-Wspecs", "-Wunused"]
 

@@ -12,7 +12,7 @@ import pytest
 import yaml
 from click.testing import CliRunner
 
-from synccore.cli import main
+from synccore.cli.main import main
 from tests import timings
 from tests.conftest import EXAMPLES
 

@@ -11,10 +11,10 @@ import pytest
 from click.testing import CliRunner
 
 from synccore import __version__, loads
-from synccore.cli import main
+from synccore.cli.main import main
 from synccore.clocking import FAMILIES, FAMILY_KEYS
 from synccore.clocking.plan import make_plan
-from synccore.schema import json_schema
+from synccore.spec.schema import json_schema
 
 MHZ = 10**6
 
@@ -276,7 +276,7 @@ def test_board_section_validates_against_the_schema() -> None:
 @pytest.mark.parametrize("key", [*FAMILY_KEYS, None])
 def test_clock_files_are_deterministic(tmp_path: Path, key: str | None) -> None:
     """Same input, same text; no absolute paths, no timestamps."""
-    from synccore.build import clock_artifacts
+    from synccore.emit.files import clock_artifacts
 
     source = write(tmp_path, DMT_640)
     spec = loads(Path(source).read_text(), source=source)

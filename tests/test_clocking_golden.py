@@ -13,9 +13,9 @@ from pathlib import Path
 import pytest
 
 from synccore import loads
-from synccore.build import clock_artifacts
 from synccore.clocking import FAMILIES
 from synccore.clocking.plan import make_plan
+from synccore.emit.files import clock_artifacts
 
 GOLDEN = Path(__file__).parent / "golden" / "clocking"
 

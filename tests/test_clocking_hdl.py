@@ -20,11 +20,11 @@ from pathlib import Path
 import pytest
 
 from synccore import loads
-from synccore.build import clock_artifacts, core_artifacts
 from synccore.clocking import FAMILIES, FAMILY_KEYS
 from synccore.clocking.plan import ClockPlan, make_plan
-from synccore.emit.pll import build_clock_context
-from synccore.tools import verilator_root
+from synccore.emit.clock.pll import build_clock_context
+from synccore.emit.files import clock_artifacts, core_artifacts
+from synccore.verification.tools import verilator_root
 
 pytestmark = pytest.mark.sim
 

@@ -17,10 +17,11 @@ from click.testing import CliRunner
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from synccore import formulas, modes
-from synccore.cli import main
+from synccore import loads
+from synccore.cli.main import main
 from synccore.errors import SpecError
-from synccore.spec import Axis, loads
+from synccore.spec import Axis
+from synccore.timings import formulas, modes
 
 P, N = "positive", "negative"
 

@@ -14,8 +14,8 @@ from click.testing import CliRunner
 from PIL import Image
 
 import synccore
-from synccore.cli import main
-from synccore.diagram import PARTS, draw
+from synccore.cli.main import main
+from synccore.picture.diagram import PARTS, draw
 from tests.conftest import EXAMPLES
 
 

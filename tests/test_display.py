@@ -19,11 +19,11 @@ import pytest
 from PIL import Image
 
 import synccore
-from synccore.display import Pulses, parse_range, read_syncs, watch
 from synccore.model import Timing
-from synccore.modes import Mode, library
+from synccore.picture.monitor import Pulses, parse_range, read_syncs, watch
+from synccore.picture.run import model_pins
 from synccore.spec import Axis, Color, Spec
-from synccore.viewsim import model_pins
+from synccore.timings.modes import Mode, library
 from tests.test_pattern_sim import expected_image
 
 VGA = Spec(
@@ -141,7 +141,7 @@ def test_de_only_picture_for_a_custom_timing() -> None:
 def test_view_cli_builtin(tmp_path: Path) -> None:
     from click.testing import CliRunner
 
-    from synccore.cli import main
+    from synccore.cli.main import main
 
     spec = tmp_path / "vga.yaml"
     spec.write_text('name: vga\nstandard: "DMT 0x04"\ncolor: {red: 3, green: 3, blue: 2}\n')

@@ -10,9 +10,9 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from synccore import loads
 from synccore.errors import SpecError
-from synccore.fit import AxisRanges, Range, fit
-from synccore.spec import loads
+from synccore.timings.panel import AxisRanges, Range, fit
 
 R = Range
 

@@ -8,7 +8,7 @@ from pathlib import Path
 import pytest
 
 import synccore
-from synccore.tools import Tool
+from synccore.verification.tools import Tool
 from tests import timings
 from tests.conftest import EXAMPLES
 from tests.hdl import ghdl_analyse, iverilog_compile, verilator_lint

@@ -10,9 +10,10 @@ from click.testing import CliRunner
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from synccore import modeline, modes
-from synccore.cli import main
-from synccore.spec import Axis, loads
+from synccore import loads
+from synccore.cli.main import main
+from synccore.spec import Axis
+from synccore.timings import modeline, modes
 
 P, N = "positive", "negative"
 

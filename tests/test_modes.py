@@ -10,10 +10,11 @@ from fractions import Fraction
 import pytest
 from click.testing import CliRunner
 
-from synccore import modes
-from synccore.cli import main
+from synccore import loads
+from synccore.cli.main import main
 from synccore.errors import SpecError
-from synccore.spec import Axis, loads
+from synccore.spec import Axis
+from synccore.timings import modes
 
 P, N = "positive", "negative"
 

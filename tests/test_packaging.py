@@ -20,12 +20,13 @@ def test_wheel_carries_templates_and_benches(tmp_path: Path) -> None:
     )  # fmt: skip
     (wheel,) = tmp_path.glob("synccore-*.whl")
     names = set(zipfile.ZipFile(wheel).namelist())
-    assert "synccore/templates/core.v.j2" in names
-    assert "synccore/templates/core.vhd.j2" in names
+    assert "synccore/templates/core/core.v.j2" in names
+    assert "synccore/templates/core/core.vhd.j2" in names
     assert "synccore/sim/contract_bench.py" in names
     assert "synccore/sim/measure_bench.py" in names
-    assert "synccore/templates/_bench.v.j2" in names and "synccore/templates/harness.vhd.j2" in names
-    assert "synccore/data/modes.yaml" in names
+    assert "synccore/templates/bench/_bench.v.j2" in names
+    assert "synccore/templates/bench/harness.vhd.j2" in names
+    assert "synccore/timings/data/modes.yaml" in names
     # Installed without the checkout around it, it still finds its templates.
     target = tmp_path / "site"
     with zipfile.ZipFile(wheel) as z:
@@ -34,7 +35,7 @@ def test_wheel_carries_templates_and_benches(tmp_path: Path) -> None:
         "import synccore\n"
         "assert synccore.__file__.startswith(sys.argv[1]), synccore.__file__\n"
         "from synccore.emit._jinja import templates_dir\n"
-        "from synccore.simulate import sim_dir\n"
+        "from synccore.verification.simulate import sim_dir\n"
         "assert str(templates_dir()).startswith(sys.argv[1])\n"
         "assert str(sim_dir()).startswith(sys.argv[1])\n"
     )

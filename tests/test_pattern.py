@@ -10,12 +10,12 @@ import pytest
 from click.testing import CliRunner
 
 import synccore
-from synccore.build import core_artifacts, pattern_artifacts
-from synccore.cli import main
-from synccore.emit.pattern import pattern_context
-from synccore.pattern import PATTERNS, bar_bounds, levels, pattern_problems
+from synccore.cli.main import main
+from synccore.emit.files import core_artifacts, pattern_artifacts
+from synccore.emit.first_light.pattern import pattern_context
+from synccore.model.pattern import PATTERNS, bar_bounds, levels, pattern_problems
 from synccore.spec import Color
-from synccore.tools import Tool
+from synccore.verification.tools import Tool
 from tests import timings
 from tests.conftest import EXAMPLES
 from tests.hdl import GHDL_WARNINGS, run

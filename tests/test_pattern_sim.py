@@ -13,9 +13,9 @@ import pytest
 from PIL import Image, ImageDraw
 
 import synccore
-from synccore.display import watch
-from synccore.tools import Tool
-from synccore.viewsim import simulate
+from synccore.picture.monitor import watch
+from synccore.picture.run import simulate
+from synccore.verification.tools import Tool
 
 WHITE = (255, 255, 255)
 # Bars left to right, by the definition: red for bit 0 of the bar index, green bit 1, blue bit 2.
@@ -151,7 +151,7 @@ def test_standard_mode_on_icarus_is_named_and_pictured(tmp_path: Path,
 def test_view_cli_on_ghdl(tmp_path: Path, need_tool: Callable[[str], Tool]) -> None:
     from click.testing import CliRunner
 
-    from synccore.cli import main
+    from synccore.cli.main import main
 
     need_tool("ghdl")
     spec = tmp_path / "small.yaml"

@@ -14,10 +14,10 @@ import pytest
 from PIL import Image
 
 import synccore
-from synccore.display import watch
-from synccore.tools import Tool
-from synccore.verify import verify
-from synccore.viewsim import simulate
+from synccore.picture.monitor import watch
+from synccore.picture.run import simulate
+from synccore.verification.engines import verify
+from synccore.verification.tools import Tool
 from tests import timings
 from tests.test_pattern_sim import SMALL, expected_image
 

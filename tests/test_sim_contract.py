@@ -12,8 +12,8 @@ from pathlib import Path
 import pytest
 
 import synccore
-from synccore.simulate import run_bench
-from synccore.tools import Tool
+from synccore.verification.simulate import run_bench
+from synccore.verification.tools import Tool
 from tests import timings
 
 pytestmark = pytest.mark.sim

@@ -10,7 +10,7 @@ import pytest
 from click.testing import CliRunner
 
 import synccore
-from synccore.cli import main
+from synccore.cli.main import main
 from tests import timings
 from tests.test_verify import TIMINGS
 

@@ -10,10 +10,10 @@ import pytest
 import yaml
 from click.testing import CliRunner
 
-from synccore.cli import main
+from synccore import load, loads
+from synccore.cli.main import main
 from synccore.errors import SpecError
-from synccore.schema import json_schema
-from synccore.spec import load, loads
+from synccore.spec.schema import json_schema
 
 EXAMPLES = sorted((Path(__file__).parent.parent / "examples").glob("*.yaml"))
 

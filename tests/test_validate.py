@@ -10,7 +10,7 @@ import pytest
 
 import synccore
 from synccore import SpecError
-from synccore.loader import MAX_FILE_BYTES
+from synccore.spec._yaml import MAX_FILE_BYTES
 
 GOOD = """\
 name: lobby_panel

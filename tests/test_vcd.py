@@ -17,9 +17,9 @@ import pytest
 from click.testing import CliRunner
 from PIL import Image
 
-from synccore.cli import main
-from synccore.display import watch
-from synccore.vcd import VcdError, parse_map, read
+from synccore.cli.main import main
+from synccore.picture.monitor import watch
+from synccore.picture.vcd import VcdError, parse_map, read
 
 DESIGN = """
 `timescale 1ns / 1ps

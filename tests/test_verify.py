@@ -13,9 +13,9 @@ from pathlib import Path
 import pytest
 
 import synccore
-from synccore.measure import compare, failures
-from synccore.tools import Tool
-from synccore.verify import run_engine
+from synccore.verification.engines import run_engine
+from synccore.verification.measure import compare, failures
+from synccore.verification.tools import Tool
 from tests import timings
 from tests.conftest import EXAMPLES
 

@@ -8,8 +8,8 @@ from pathlib import Path
 import pytest
 from click.testing import CliRunner
 
-from synccore.cli import main
-from synccore.tools import Tool
+from synccore.cli.main import main
+from synccore.verification.tools import Tool
 from tests import timings
 
 pytestmark = pytest.mark.sim

@@ -6,8 +6,8 @@ settings; :mod:`synccore.clocking.plan` (imported on its own, since it
 depends on the timing model) turns a spec and a board into a plan.
 """
 
-from .families import FAMILIES, FAMILY_KEYS, Family, family
-from .solve import MONITOR_TOLERANCE, EnableSetting, Setting, solve, solve_enable
+from synccore.clocking.families import FAMILIES, FAMILY_KEYS, Family, family
+from synccore.clocking.solve import MONITOR_TOLERANCE, EnableSetting, Setting, solve, solve_enable
 
 __all__ = [
     "FAMILIES",

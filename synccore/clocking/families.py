@@ -28,6 +28,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from fractions import Fraction
 
+from synccore.spec import FAMILY_NAMES
+
 MHZ = 10**6
 
 
@@ -300,6 +302,8 @@ FAMILIES: dict[str, Family] = {f.key: f for f in (ICE40, ECP5, XC7_MMCM, XC7_PLL
 """Every known family by its key, in the order they are listed to users."""
 
 FAMILY_KEYS: tuple[str, ...] = tuple(FAMILIES)
+if FAMILY_KEYS != FAMILY_NAMES:  # pragma: no cover - caught by every test run
+    raise AssertionError(f"families {FAMILY_KEYS} differ from the format's {FAMILY_NAMES}")
 
 
 def family(key: str) -> Family:

@@ -22,10 +22,8 @@ import dataclasses
 from dataclasses import dataclass
 from fractions import Fraction
 
-from ..model import Timing
-from ..spec import Spec
-from .families import Family
-from .solve import (
+from synccore.clocking.families import Family
+from synccore.clocking.solve import (
     MONITOR_TOLERANCE,
     EnableSetting,
     Setting,
@@ -33,6 +31,8 @@ from .solve import (
     solve,
     solve_enable,
 )
+from synccore.model import Timing
+from synccore.spec import Spec
 
 PORCH_SHARE = Fraction(1, 4)
 """A suggested adjustment changes each horizontal porch by at most this share of its width."""

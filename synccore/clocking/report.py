@@ -5,9 +5,9 @@ from __future__ import annotations
 from fractions import Fraction
 from typing import Any
 
-from ..units import fixed, hz, in_unit
-from .plan import ClockPlan, Route
-from .solve import EnableSetting, Setting
+from synccore.clocking.plan import ClockPlan, Route
+from synccore.clocking.solve import EnableSetting, Setting
+from synccore.units import fixed, hz, in_unit
 
 TOLERANCE_SOURCE = "VESA DMT (from memory)"
 

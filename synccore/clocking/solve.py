@@ -21,7 +21,7 @@ from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
 from fractions import Fraction
 
-from .families import Family, ice40_filter_range
+from synccore.clocking.families import Family, ice40_filter_range
 
 MONITOR_TOLERANCE = Fraction(5, 1000)
 """±0.5 % on the pixel clock: VESA DMT, general timing requirements (from memory)."""

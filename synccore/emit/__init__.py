@@ -1,6 +1,6 @@
 """Stage 4: emitters, one per target language, fed by one precomputed context."""
 
-from .verilog import render_verilog
-from .vhdl import render_vhdl
+from synccore.emit.core.verilog import render_verilog
+from synccore.emit.core.vhdl import render_vhdl
 
 __all__ = ["render_verilog", "render_vhdl"]

@@ -1,0 +1,3 @@
+from synccore.cli.main import main
+
+__all__ = ["main"]

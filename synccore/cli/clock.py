@@ -1,0 +1,166 @@
+"""The ``clock`` command and the ``build --clock`` options: from the board clock to the core clock.
+
+Thin, like :mod:`synccore.cli.main`: it resolves the board clock and family
+(options first, then the spec's ``board`` section), asks
+:mod:`synccore.clocking.plan` for a plan and prints it.  Bad input is one
+line on stderr and exit status 2.
+"""
+
+from __future__ import annotations
+
+import json
+import sys
+from collections.abc import Callable
+from fractions import Fraction
+from typing import Any, TypeVar
+
+import click
+from rich.console import Console
+from rich.markup import escape
+
+from synccore.clocking import FAMILIES, FAMILY_KEYS, Family
+from synccore.clocking.plan import ClockPlan, make_plan
+from synccore.clocking.report import adjustment_facts, plan_dict, plan_facts, ppm_text, route_text
+from synccore.emit.files import Artifact, clock_artifacts
+from synccore.errors import Problem, SpecError
+from synccore.spec import Spec, parse_frequency
+from synccore.timings import load
+from synccore.units import fixed, hz
+
+F = TypeVar("F", bound=Callable[..., Any])
+
+
+class BadOption(Exception):
+    """An option value that cannot be used; its text is the one line shown to the user."""
+
+
+def _exit(lines: list[str]) -> None:
+    for line in lines:
+        click.echo(line, err=True)
+    sys.exit(2)
+
+
+def board_options(func: F) -> F:
+    """The options that name the board clock and the route, shared by ``clock`` and ``build``."""
+    func = click.option(
+        "--no-pll", is_flag=True, help="Use a clock enable from the board clock instead of a PLL."
+    )(func)
+    func = click.option(
+        "--family",
+        default=None,
+        metavar="FAMILY",
+        help="FPGA family whose PLL makes the core clock: "
+        + ", ".join(FAMILY_KEYS)
+        + " (default: the spec's board.family).",
+    )(func)
+    func = click.option("--board-clock", default=None, metavar="FREQ",
+                        help='Board oscillator, e.g. "12MHz" (default: the spec\'s '
+                             "board.clock_hz).")(func)  # fmt: skip
+    return func
+
+
+def resolve(spec: Spec, board_clock: str | None, family: str | None, no_pll: bool
+            ) -> tuple[Fraction, Family | None]:  # fmt: skip
+    """The board clock and family from the options, falling back on the spec's board section."""
+    if board_clock is not None:
+        f_board = parse_frequency(board_clock)
+        if f_board is None or f_board <= 0:
+            raise BadOption(f'--board-clock: must be a frequency like "12MHz" or "27 MHz", '
+                            f"got {board_clock!r}")  # fmt: skip
+    elif spec.board.clock_hz is not None:
+        f_board = spec.board.clock_hz
+    else:
+        raise BadOption("--board-clock: no board clock given; pass --board-clock or set "
+                        "board.clock_hz in the spec")  # fmt: skip
+    if no_pll:
+        return f_board, None
+    key = family if family is not None else spec.board.family
+    if key is None:
+        return f_board, None
+    if key not in FAMILIES:
+        raise BadOption(f"--family: unknown FPGA family {key!r}; choose from "
+                        f"{', '.join(FAMILY_KEYS)}")  # fmt: skip
+    return f_board, FAMILIES[key]
+
+
+def plan_for(spec: Spec, board_clock: str | None, family: str | None, no_pll: bool) -> ClockPlan:
+    f_board, fam = resolve(spec, board_clock, family, no_pll)
+    return make_plan(spec, f_board=f_board, family=fam)
+
+
+def build_clock_artifacts(spec: Spec, board_clock: str | None, family: str | None,
+                          no_pll: bool) -> tuple[ClockPlan, list[Artifact]]:  # fmt: skip
+    """For ``build --clock``: the plan and its wrapper and constraint files; exits on bad input."""
+    try:
+        plan = plan_for(spec, board_clock, family, no_pll)
+    except BadOption as err:
+        _exit([str(err)])
+        raise AssertionError from err  # pragma: no cover - _exit exits
+    best = plan.best
+    if best is None:
+        key = plan.family.key if plan.family else ""
+        _exit([f"--clock: no PLL setting of {key} reaches {hz(plan.target)} from "
+               f"{hz(plan.f_board)}; run 'synccore clock' for details"])  # fmt: skip
+    if plan.family is None and plan.enable is not None and plan.enable.divide > 1:
+        if not spec.core.clock_enable:
+            raise SpecError([Problem(None, "core.clock_enable",
+                                     "must be true for the clock-enable route "
+                                     f"(ce every {plan.enable.divide} cycles of "
+                                     f"{hz(plan.f_board)}), got false")])  # fmt: skip
+    return plan, clock_artifacts(plan)
+
+
+def _print_facts(rows: list[tuple[str, str]], console: Console) -> None:
+    # plain lines, never wrapped, so that scripts can grep them
+    width = max(len(label) for label, _ in rows)
+    for label, value in rows:
+        console.print(f"[bold]{escape(label.ljust(width))}[/bold]  {escape(value)}")
+
+
+def print_plan(plan: ClockPlan, console: Console) -> None:
+    """The plan, its runners-up and any suggested adjustment, as terminal text."""
+    _print_facts(plan_facts(plan), console)
+    if len(plan.settings) > 1:
+        console.print("[bold]runners-up[/bold]")
+        for s in plan.settings[1:]:
+            console.print(f"  {escape(route_text(s))}  ({escape(ppm_text(s.ppm))})")
+    if plan.within_tolerance:
+        return
+    pct = fixed(plan.tolerance * 100, 1)
+    if plan.best is None:
+        console.print("No setting reaches the core clock.")
+    else:
+        console.print(f"No setting is within +/-{pct} % of the pixel clock.")
+    if plan.adjustment is None:
+        console.print("No horizontal total within the porch bound (each porch +/-25 %) "
+                      "gives a reachable clock either.")  # fmt: skip
+        return
+    console.print("Adjusting the horizontal total keeps line rate and refresh on target:")
+    _print_facts(adjustment_facts(plan), console)
+
+
+@click.command()
+@click.argument("spec", type=click.Path(dir_okay=False))
+@board_options
+@click.option("--json", "as_json", is_flag=True, help="Print the plan as JSON.")
+def clock(spec: str, board_clock: str | None, family: str | None, no_pll: bool,
+          as_json: bool) -> None:  # fmt: skip
+    """Plan the core clock of SPEC from the board clock: PLL settings or a clock enable."""
+    try:
+        s = load(spec)
+    except SpecError as err:
+        _exit([str(p) for p in err.problems])
+        return
+    try:
+        plan = plan_for(s, board_clock, family, no_pll)
+    except BadOption as err:
+        _exit([str(err)])
+        return
+    if as_json:
+        click.echo(json.dumps(plan_dict(plan), indent=2))
+        return
+    console = Console(highlight=False, soft_wrap=True)
+    print_plan(plan, console)
+    if plan.family is None and plan.enable is not None and plan.enable.divide > 1:
+        if not s.core.clock_enable:
+            console.print("Note: set core.clock_enable: true in the spec to use this route.")

@@ -1,0 +1,213 @@
+"""Command-line commands for standard timings: ``synccore modes`` and ``synccore new``.
+
+Kept apart from :mod:`synccore.cli.main` so the core commands stay small; cli.py
+registers these with ``main.add_command``.
+"""
+
+from __future__ import annotations
+
+import json
+import re
+import sys
+from decimal import Decimal
+from fractions import Fraction
+from pathlib import Path
+
+import click
+from rich.console import Console
+from rich.table import Table
+
+from synccore.spec import Axis, parse_frequency
+from synccore.timings import formulas, modeline, modes
+from synccore.units import fixed, hz, in_unit
+
+
+def _console() -> Console:
+    return Console(highlight=False, soft_wrap=True)
+
+
+def _bad(message: str) -> None:
+    click.echo(f"synccore: {message}", err=True)
+    sys.exit(2)
+
+
+@click.command("modes")
+@click.argument("filter_words", nargs=-1, metavar="[FILTER]...")
+@click.option("--max-clock", metavar="FREQ",
+              help='Only modes whose pixel clock is at most FREQ, e.g. "100MHz".')
+@click.option("--json", "as_json", is_flag=True,
+              help="Print the entries as JSON, in the spec format's keys, for scripts.")
+def modes_command(filter_words: tuple[str, ...], max_clock: str | None,
+                  as_json: bool) -> None:  # fmt: skip
+    """List the built-in standard timings (VESA DMT, CTA-861).
+
+    FILTER words must all appear in the mode's name, source or note, e.g.
+    `synccore modes 1920x1080`, `synccore modes cta @60`, `synccore modes rb`.
+    """
+    limit: Fraction | None = None
+    if max_clock is not None:
+        limit = parse_frequency(max_clock)
+        if limit is None:
+            _bad(f'--max-clock must be a frequency like "100MHz", got {max_clock!r}')
+    found = modes.search(" ".join(filter_words), max_clock_hz=limit)
+    if as_json:
+        click.echo(json.dumps([m.as_spec_keys() for m in found], indent=2))
+        return
+    if not found:
+        click.echo("no library entry matches", err=True)
+        sys.exit(1)
+    table = Table(title_justify="left")
+    for head, right in (("mode", False), ("refresh Hz", True), ("pixel clock", True),
+                        ("line rate kHz", True), ("TMDS bit rate", True), ("source", False),
+                        ("note", False)):  # fmt: skip
+        table.add_column(head, justify="right" if right else "left")
+    for m in found:
+        table.add_row(m.name, fixed(m.refresh_hz, 3), hz(m.pixel_clock_hz),
+                      in_unit(m.line_rate_hz, "kHz"), _bits(m.tmds_bit_rate),
+                      m.source + (f" = {', '.join(m.also)}" if m.also else ""), m.note)  # fmt: skip
+    console = _console()
+    console.width = max(console.width, 140)  # one row per mode, even in a narrow pipe
+    console.print(table)
+
+
+def _bits(rate: Fraction) -> str:
+    return hz(rate).replace("Hz", "bit/s")
+
+
+# ----------------------------------------------------------------------- new
+
+_SIZE = re.compile(r"\s*([0-9]+)\s*x\s*([0-9]+)\s*@\s*([0-9]+(?:\.[0-9]+)?)\s*\Z", re.IGNORECASE)
+
+
+def _default_name(width: int, height: int, rate: str) -> str:
+    return f"timing_{width}x{height}_{rate.replace('.', 'p')}"
+
+
+def _clock_text(clock: Fraction) -> tuple[str, str]:
+    """The clock as the spec writes it (exact when whole Hz) and a comment if rounded."""
+    whole = round(clock)
+    if clock.denominator == 1:
+        mhz = modeline.clock_mhz_text(clock).rstrip("0").rstrip(".")
+        return f'"{mhz} MHz"', ""
+    mhz = modeline.clock_mhz_text(Fraction(whole)).rstrip("0").rstrip(".")
+    return f'"{mhz} MHz"', (f"  # exact: {clock.numerator}/{clock.denominator} Hz, "
+                            "rounded to 1 Hz")  # fmt: skip
+
+
+def _commented(text: str, comment: str) -> str:
+    return f"{text.ljust(_COMMENT_COLUMN)}# {comment}"
+
+
+_COMMENT_COLUMN = 26
+
+
+def _axis_yaml(label: str, unit: str, a: Axis) -> list[str]:
+    return [
+        f"{label}:",
+        _commented(f"  active: {a.active}", f"visible {unit}"),
+        _commented(f"  front_porch: {a.front_porch}", f"blank {unit} before the sync pulse"),
+        _commented(f"  sync: {a.sync}", "sync pulse width"),
+        _commented(f"  back_porch: {a.back_porch}", f"blank {unit} after the sync pulse"),
+        _commented(f"  sync_polarity: {a.sync_polarity}", "positive: high during the pulse"),
+    ]
+
+
+def spec_text(*, name: str, origin: str, notes: tuple[str, ...], clock: Fraction,
+              h: Axis, v: Axis) -> str:  # fmt: skip
+    """A complete, commented timing description in the explicit form."""
+    clock_value, clock_comment = _clock_text(clock)
+    refresh = clock / (h.total * v.total)
+    lines = [
+        f"# Timing description written by `synccore new` from {origin}.",
+        *(f"# Note: {n}" for n in notes),
+        f"# Totals: {h.total} x {v.total}; refresh {fixed(refresh, 3)} Hz; "
+        f"line rate {in_unit(clock / h.total, 'kHz')} kHz.",
+        "# Edit freely; `synccore show` checks it, `synccore build` turns it into HDL.",
+        f"name: {name}",
+        f"pixel_clock_hz: {clock_value}{clock_comment}",
+        *_axis_yaml("horizontal", "pixels", h),
+        *_axis_yaml("vertical", "lines", v),
+        "core:",
+        _commented("  pixels_per_clock: 1", "1, 2, 4 or 8"),
+        _commented("  clock_enable: false", "true adds a ce input"),
+        _commented("  reset: sync_high", "sync_high, sync_low, async_high or async_low"),
+        _commented("  lead: 0", "cycles by which x/y run ahead of syncs and de"),
+        "ports:",
+        _commented('  prefix: ""', "text put before every port name"),
+    ]
+    return "\n".join(lines) + "\n"
+
+
+@click.command("new")
+@click.argument("mode", required=False)
+@click.option("--out", "-o", "out", default="-", show_default=True, metavar="FILE",
+              help="Where to write the spec; - writes to standard output.")
+@click.option("--method", type=click.Choice(formulas.METHODS),
+              help="Compute WIDTHxHEIGHT@RATE with a formula instead of the library.")
+@click.option("--video-optimized", is_flag=True,
+              help="With --method cvt-rb2: lower the clock by 1000/1001.")
+@click.option("--modeline", "modeline_text", metavar="LINE",
+              help='Start from an X.Org modeline, e.g. "74.25 1280 1390 1430 1650 720 725 '
+                   '730 750 +hsync +vsync".')
+@click.option("--name", metavar="IDENT", help="Module / entity name (default from the mode).")
+@click.option("--force", is_flag=True, help="Overwrite FILE if it exists.")
+def new_command(mode: str | None, out: str, method: str | None, video_optimized: bool,
+                modeline_text: str | None, name: str | None, force: bool) -> None:  # fmt: skip
+    """Write a complete, editable timing description for MODE.
+
+    MODE is a library name or source (`1280x720@60`, `DMT 0x55`, `CTA VIC 16`,
+    `1280x768@60 rb`; see `synccore modes`), or WIDTHxHEIGHT@RATE with --method.
+    """
+    notes: tuple[str, ...]
+    if modeline_text is not None:
+        if mode or method:
+            _bad("--modeline replaces MODE and --method; give one")
+        try:
+            ml = modeline.parse(modeline_text)
+        except modeline.ModelineError as exc:
+            _bad(f"--modeline: {exc}")
+            return
+        rate = fixed(ml.pixel_clock_hz / (ml.horizontal.total * ml.vertical.total), 2)
+        default = _default_name(ml.horizontal.active, ml.vertical.active, rate)
+        origin = f"the modeline {ml.name!r}" if ml.name else "a modeline"
+        clock, h, v, notes = ml.pixel_clock_hz, ml.horizontal, ml.vertical, ()
+    elif mode is None:
+        _bad("give MODE (e.g. 1280x720@60) or --modeline")
+        return
+    elif method is not None:
+        m = _SIZE.match(mode)
+        if not m:
+            _bad(f"with --method, MODE must be WIDTHxHEIGHT@RATE, got {mode!r}")
+            return
+        width, height, rate = int(m.group(1)), int(m.group(2)), m.group(3)
+        try:
+            r = formulas.compute(method, width, height, Fraction(Decimal(rate)),
+                                 video_optimized=video_optimized)  # fmt: skip
+        except formulas.FormulaError as exc:
+            _bad(str(exc))
+            return
+        default = _default_name(width, height, rate)
+        origin = f"the {method.upper()} formula ({width}x{height}@{rate})"
+        clock, h, v, notes = r.pixel_clock_hz, r.horizontal, r.vertical, r.notes
+    else:
+        if video_optimized:
+            _bad("--video-optimized needs --method cvt-rb2")
+        try:
+            found = modes.find(mode)
+        except modes.ModeLookupError as exc:
+            _bad(f"MODE {exc}, got {mode!r}")
+            return
+        default = _default_name(found.horizontal.active, found.vertical.active,
+                                found.refresh_label)  # fmt: skip
+        origin = f"{found.source} ({found.name})"
+        clock, h, v = found.pixel_clock_hz, found.horizontal, found.vertical
+        notes = (found.note,) if found.note else ()
+    text = spec_text(name=name or default, origin=origin, notes=notes, clock=clock, h=h, v=v)
+    if out == "-":
+        click.echo(text, nl=False)
+        return
+    path = Path(out)
+    if path.exists() and not force:
+        _bad(f"{out} exists; use --force to overwrite it")
+    path.write_text(text, encoding="utf-8")
+    click.echo(f"wrote {out}", err=True)

@@ -1,0 +1,110 @@
+"""``synccore view``: see the picture before the board (simulated monitor)."""
+
+from __future__ import annotations
+
+import sys
+import tempfile
+from pathlib import Path
+
+import click
+from rich.console import Console
+from rich.table import Table
+
+from synccore.errors import SpecError
+from synccore.timings import load
+
+MONITOR_CAUTION = (
+    "This is a simulated monitor. Before wiring a real one, check the FPGA bank's I/O "
+    "voltage against the display input, size any resistor DAC for 0-0.7 V into 75 ohm, "
+    "and follow the panel's and backlight supply's datasheets."
+)
+
+
+@click.command(name="view")
+@click.argument("spec", required=False, type=click.Path(dir_okay=False))
+@click.option("--sim", "engine", default="icarus", show_default=True,
+              type=click.Choice(("icarus", "ghdl", "verilator", "builtin", "model")),
+              help="Engine running the first-light design: a simulator; builtin, its Amaranth "
+                   "model in Amaranth's simulator; model, the pins computed from the timing "
+                   "model (quickest, no HDL).")
+@click.option("--pattern", default="bars", show_default=True,
+              type=click.Choice(("bars", "grid", "gradient", "checker", "edges")))
+@click.option("--out", "-o", "out_png", type=click.Path(dir_okay=False),
+              help="PNG of the visible frame (default: <name>_view.png).")
+@click.option("--monitor-range", metavar="H,V",
+              help="Rates the monitor accepts, e.g. 30-83kHz,56-76Hz.")
+@click.option("--vcd", type=click.Path(dir_okay=False, exists=True),
+              help="Read the pins from your own simulation's VCD (or .fst) instead (needs --map).")
+@click.option("--map", "mapping", metavar="LIST",
+              help="With --vcd: pin=signal pairs, e.g. clk=top.clk,hsync=top.vga_hs,"
+                   "vsync=top.vga_vs,de=top.de,red=top.r,green=top.g,blue=top.b.")
+@click.option("--work-dir", type=click.Path(file_okay=False),
+              help="Keep the simulation folder here (default: a temporary folder).")
+def view_command(spec: str | None, engine: str, pattern: str, out_png: str | None,
+                 monitor_range: str | None, vcd: str | None, mapping: str | None,
+                 work_dir: str | None) -> None:  # fmt: skip
+    """Simulate SPEC's first-light design and look at it as a monitor would: rates, mode, PNG."""
+    from synccore.model.pattern import pattern_problems
+    from synccore.picture.monitor import parse_range, watch
+    from synccore.picture.run import ViewError, simulate
+    from synccore.picture.vcd import VcdError, parse_map, read
+
+    console = Console(highlight=False, soft_wrap=True)
+    rng = None
+    if monitor_range:
+        try:
+            rng = parse_range(monitor_range)
+        except ValueError as err:
+            raise click.BadParameter(str(err), param_hint="--monitor-range") from None
+    if vcd:
+        if not mapping:
+            raise click.UsageError("--vcd needs --map, e.g. --map clk=top.clk,hsync=top.hs,vsync=top.vs")
+        try:
+            pins = read(vcd, parse_map(mapping))
+        except VcdError as err:
+            click.echo(str(err), err=True)
+            sys.exit(2)
+        name = Path(vcd).stem
+        title = f"{vcd}"
+    else:
+        if spec is None:
+            raise click.UsageError("give a SPEC, or --vcd with --map")
+        try:
+            s = load(spec)
+        except SpecError as err:
+            for p in err.problems:
+                click.echo(str(p), err=True)
+            sys.exit(2)
+        problems = pattern_problems(s)
+        if problems:
+            click.echo(f"{spec}: {problems[0]}", err=True)
+            sys.exit(2)
+        name = s.name
+        title = f"{s.name} ({pattern}) on {engine}"
+        try:
+            if work_dir:
+                pins = simulate(s, pattern, engine=engine, work_dir=Path(work_dir))
+            else:
+                with tempfile.TemporaryDirectory(prefix="synccore-view-") as tmp:
+                    pins = simulate(s, pattern, engine=engine, work_dir=Path(tmp))
+        except ViewError as err:
+            click.echo(str(err), err=True)
+            sys.exit(2)
+    mon = watch(pins, monitor_range=rng)
+    table = Table(title=f"simulated monitor: {title}", title_justify="left", show_header=False)
+    table.add_column(style="bold")
+    table.add_column()
+    for label, value in mon.summary():
+        table.add_row(label, value)
+    console.print(table)
+    for note in mon.notes:
+        console.print(f"note: {note}")
+    if mon.image is not None:
+        target = Path(out_png or f"{name}_view.png")
+        mon.image.save(target)
+        console.print(f"wrote {target}")
+    console.print(MONITOR_CAUTION, style="dim")
+    if mon.problems:
+        for problem in mon.problems:
+            click.echo(f"PROBLEM {problem}", err=True)
+        sys.exit(1)

@@ -1,0 +1,21 @@
+"""VHDL (-93 and -2008) literals and declarations, shared by every emitter of the language."""
+
+from __future__ import annotations
+
+
+def bit(value: int) -> str:
+    """A std_logic literal."""
+    return f"'{value & 1}'"
+
+
+def zeros(width: int) -> str:
+    """A string literal of ``width`` zero bits, e.g. ``"00"``."""
+    return '"' + "0" * width + '"'
+
+
+def port_type(width: int | None) -> str:
+    return "std_logic" if width is None else f"std_logic_vector({width - 1} downto 0)"
+
+
+def comment_lines(lines: tuple[str, ...]) -> list[str]:
+    return [f"-- {line}".rstrip() for line in lines]

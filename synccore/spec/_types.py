@@ -1,0 +1,128 @@
+"""The types of a validated timing description, and the allowed values of the format.
+
+This module imports nothing from synccore: every later stage may use it.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Any
+
+MAX_AXIS = 65535
+"""Largest total (pixels per line, lines per frame) accepted; beyond it no display exists."""
+
+MAX_PIXEL_CLOCK_HZ = 10_000_000_000
+"""10 GHz: well above any display link's pixel clock."""
+
+POLARITIES = ("positive", "negative")
+RESETS = ("sync_high", "sync_low", "async_high", "async_low")
+VSYNC_ALIGNS = ("hsync", "line")
+PIXELS_PER_CLOCK = (1, 2, 4, 8)
+SCALES = (1, 2, 4)
+
+BASE_PORTS = (
+    "clk", "rst", "rst_n", "ce", "hsync", "vsync", "de", "hblank", "vblank",
+    "x", "y", "line_start", "frame_start",
+)  # fmt: skip
+
+FORMULA_METHODS = ("cvt", "cvt-rb", "cvt-rb2", "gtf")
+
+FAMILY_NAMES = ("ice40", "ecp5", "xc7-mmcm", "xc7-pll", "gowin", "cyclone")
+"""FPGA families whose PLL clock planning knows, in the order they are listed to users
+(synccore.clocking.families holds their data and checks that it knows exactly these)."""
+
+
+@dataclass(frozen=True)
+class Axis:
+    """One direction of the raster, in pixels (horizontal) or lines (vertical)."""
+
+    active: int
+    front_porch: int
+    sync: int
+    back_porch: int
+    sync_polarity: str
+
+    @property
+    def total(self) -> int:
+        return self.active + self.front_porch + self.sync + self.back_porch
+
+    @property
+    def blanking(self) -> int:
+        return self.total - self.active
+
+
+@dataclass(frozen=True)
+class CoreOptions:
+    """How the generated core is built; every option has a default."""
+
+    pixels_per_clock: int = 1
+    clock_enable: bool = False
+    reset: str = "sync_high"
+    lead: int = 0
+    vsync_align: str = "hsync"
+    scale: int = 1
+
+
+@dataclass(frozen=True)
+class Board:
+    """The board's oscillator and FPGA family, when the spec gives them (for clock planning)."""
+
+    clock_hz: Fraction | None = None
+    family: str | None = None
+
+
+@dataclass(frozen=True)
+class Color:
+    """Bits per colour channel of the test-pattern design; 4-4-4 unless the spec says."""
+
+    red: int = 4
+    green: int = 4
+    blue: int = 4
+
+
+@dataclass(frozen=True)
+class Spec:
+    """A validated timing description."""
+
+    name: str
+    pixel_clock_hz: Fraction
+    horizontal: Axis
+    vertical: Axis
+    core: CoreOptions = CoreOptions()
+    port_prefix: str = ""
+    source: str = "<string>"
+    origin: str = ""
+    """Where the timing came from when not given explicitly: a library entry, a formula, a fit."""
+    notes: tuple[str, ...] = ()
+    """What the resolution step adjusted or wants the user to know, one sentence each."""
+    board: Board = Board()
+    color: Color = Color()
+
+
+def to_dict(spec: Spec) -> dict[str, Any]:
+    """The validated spec as plain JSON-ready values (the clock as an exact "num/den" string)."""
+    return {
+        "name": spec.name,
+        "pixel_clock_hz": f"{spec.pixel_clock_hz.numerator}/{spec.pixel_clock_hz.denominator}",
+        "horizontal": vars(spec.horizontal).copy(),
+        "vertical": vars(spec.vertical).copy(),
+        "core": vars(spec.core).copy(),
+        "port_prefix": spec.port_prefix,
+        "source": spec.source,
+        "color": vars(spec.color).copy(),
+    }
+
+
+def from_dict(data: dict[str, Any]) -> Spec:
+    """Rebuild a spec written by :func:`to_dict` (trusted input: no validation)."""
+    return Spec(
+        name=data["name"],
+        pixel_clock_hz=Fraction(data["pixel_clock_hz"]),
+        horizontal=Axis(**data["horizontal"]),
+        vertical=Axis(**data["vertical"]),
+        core=CoreOptions(**data["core"]),
+        port_prefix=data["port_prefix"],
+        source=data["source"],
+        color=Color(**data.get("color", {})),
+    )

@@ -1,0 +1,29 @@
+"""Reading a timing description end to end: YAML, resolution, validation.
+
+The format and its validator live in :mod:`synccore.spec`; a description may
+also name a library mode, a formula or datasheet ranges, which only this
+package knows how to turn into numbers.  So the whole reading step is here.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from synccore.spec import Node, Spec, load_file, load_text, top_mapping, validate
+from synccore.timings.resolve import resolve
+
+
+def load(path: str | Path) -> Spec:
+    """Read, resolve and validate one timing description file; :class:`SpecError` on problems."""
+    return _read(load_file(path), str(path))
+
+
+def loads(text: str, source: str = "<string>") -> Spec:
+    """The same for a timing description given as YAML text."""
+    return _read(load_text(text, source), source)
+
+
+def _read(doc: Node, source: str) -> Spec:
+    resolved = resolve(top_mapping(doc))
+    return validate(resolved.doc, source=source, origin=resolved.origin, notes=resolved.notes,
+                    earlier=resolved.problems)  # fmt: skip

@@ -1,0 +1,351 @@
+"""Turn ``standard:``, ``formula:`` and datasheet ranges into explicit numbers.
+
+A spec may give its timing in four ways: explicitly (``pixel_clock_hz``,
+``horizontal``, ``vertical``), as a library entry (``standard:``), as a formula
+(``formula:``), or as panel datasheet ranges (``{min, typ, max}`` in place of
+numbers) with a ``fit:`` target.  This step runs before validation and
+rewrites the located document into the explicit form, so the validator checks
+one shape only.  Every value it writes carries the location of what it came
+from (the ``standard:`` value, the ``formula:`` section, the range), so later
+problems still point into the user's file.  It collects every problem; when a
+part cannot be resolved it writes a stand-in so the rest of the file is still
+checked, and the problems it recorded make validation fail anyway.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from fractions import Fraction
+from typing import Any
+
+from synccore.errors import Location, Problem
+from synccore.spec import (
+    FIT_FIELDS,
+    FORMULA_FIELDS,
+    MAX_AXIS,
+    Axis,
+    Collector,
+    Field,
+    Located,
+    Node,
+    Scalar,
+    check_section,
+    describe_node,
+    parse_frequency,
+)
+from synccore.timings import formulas, modes
+from synccore.timings import panel as fitting
+from synccore.units import fixed, hz
+
+EXPLICIT = ("pixel_clock_hz", "horizontal", "vertical")
+ALTERNATIVES = ("standard", "formula")
+AXIS_RANGED = ("front_porch", "sync", "back_porch")
+
+
+@dataclass
+class Resolved:
+    """The explicit-form document, where its timing came from, notes and problems."""
+
+    doc: Located
+    origin: str = ""
+    notes: tuple[str, ...] = ()
+    problems: list[Problem] = field(default_factory=list)
+
+
+# A stand-in timing (any valid one) used only after a recorded problem.
+_STAND_IN = (25_175_000, Axis(640, 16, 96, 48, "negative"), Axis(480, 10, 2, 33, "negative"))
+
+
+def _scalar(value: Any, where: Location) -> Scalar:
+    return Scalar(value, where, "tag:synccore,resolved")
+
+
+def _axis_node(a: Axis, where: Location) -> Located:
+    values = {k: _scalar(getattr(a, k), where) for k in
+              ("active", "front_porch", "sync", "back_porch", "sync_polarity")}  # fmt: skip
+    return Located(values, where, key_locations={k: where for k in values})
+
+
+def _put(given: dict[str, Node], keys: dict[str, Location], clock: Any,
+         h: Axis, v: Axis, where: Location) -> None:  # fmt: skip
+    given["pixel_clock_hz"] = _scalar(clock, where)
+    given["horizontal"] = _axis_node(h, where)
+    given["vertical"] = _axis_node(v, where)
+    for k in EXPLICIT:
+        keys[k] = where
+
+
+def resolve(doc: Located) -> Resolved:
+    """Rewrite ``doc`` (a top-level mapping) into the explicit form; see the module doc."""
+    out = Collector()
+    given: dict[str, Node] = dict(doc.value)
+    keys = dict(doc.key_locations)
+    new = Located(given, doc.location, key_locations=keys)
+    result = Resolved(new)
+    chosen = [k for k in ALTERNATIVES if k in given]
+    explicit = [k for k in EXPLICIT if k in given]
+
+    if len(chosen) == 2:
+        out.add(keys["formula"], "formula",
+                f"cannot be combined with standard (at {keys['standard']}); give one")
+    if chosen:
+        alt = chosen[0]
+        for k in explicit:
+            out.add(keys[k], k, f"cannot be given together with {alt} (at {keys[alt]}), "
+                                f"which supplies it; remove one")  # fmt: skip
+        if "fit" in given:
+            out.add(keys["fit"], "fit",
+                    f"applies to datasheet ranges only; cannot be combined with {alt}")
+        node = given.pop(alt)
+        given.pop("formula", None)
+        given.pop("fit", None)
+        where = keys[alt]
+        if alt == "standard":
+            _standard(node, result, out)
+        else:
+            _formula(node, result, out)
+        if not result.origin:  # unresolved: stand-in, after a recorded problem
+            _put(given, keys, *_STAND_IN, where)
+        for k in ALTERNATIVES + ("fit",):
+            keys.pop(k, None)
+    else:
+        _ranges(given, keys, doc, result, out)
+    result.problems = out.problems
+    return result
+
+
+def _standard(node: Node, result: Resolved, out: Collector) -> None:
+    where = node.location
+    if not isinstance(node, Scalar) or not isinstance(node.value, str):
+        out.add(where, "standard",
+                f"must be a mode name like '1280x720@60' or a source like 'DMT 0x55', "
+                f"got {describe_node(node)}")  # fmt: skip
+        return
+    try:
+        mode = modes.find(node.value)
+    except modes.ModeLookupError as exc:
+        out.add(where, "standard", f"{exc}, got {node.value!r}")
+        return
+    _put(result.doc.value, result.doc.key_locations, mode.pixel_clock_hz, mode.horizontal,
+         mode.vertical, where)  # fmt: skip
+    result.origin = f"{mode.source} ({mode.name})"
+    result.notes = (mode.note,) if mode.note else ()
+
+
+def _formula(node: Node, result: Resolved, out: Collector) -> None:
+    where = node.location
+    if not isinstance(node, Located) or not isinstance(node.value, dict):
+        out.add(where, "formula", f"must be a mapping of method, width, height, refresh, "
+                                  f"got {describe_node(node)}")  # fmt: skip
+        return
+    values = check_section(FORMULA_FIELDS, node, "formula", out)
+    if values is None:
+        return
+    try:
+        r = formulas.compute(values["method"], values["width"], values["height"],
+                             values["refresh"],
+                             video_optimized=values["video_optimized"])  # fmt: skip
+    except formulas.FormulaError as exc:
+        out.add(where, "formula", str(exc))
+        return
+    _put(result.doc.value, result.doc.key_locations, r.pixel_clock_hz, r.horizontal,
+         r.vertical, where)  # fmt: skip
+    rate = fixed(values["refresh"], 3).rstrip("0").rstrip(".")
+    result.origin = f"{r.method.upper()} formula ({values['width']}x{values['height']}@{rate})"
+    result.notes = r.notes
+
+
+# ------------------------------------------------------------------ ranges
+
+
+def _range_fields(kind: str, minimum: int) -> tuple[Field, ...]:
+    bound = {"minimum": minimum, "maximum": MAX_AXIS} if kind == "int" else {}
+    return (
+        Field("min", kind, "smallest value the datasheet allows", **bound),  # type: ignore[arg-type]
+        Field("typ", kind, "typical value", required=False, **bound),  # type: ignore[arg-type]
+        Field("max", kind, "largest value the datasheet allows", **bound),  # type: ignore[arg-type]
+    )
+
+
+def _parse_range(node: Located, kind: str, minimum: int, path: str,
+                 out: Collector) -> fitting.Range | None:  # fmt: skip
+    values = check_section(_range_fields(kind, minimum), node, path, out)
+    if values is None:
+        return None
+    lo, typ, hi = (None if values[k] is None else Fraction(values[k])
+                   for k in ("min", "typ", "max"))  # fmt: skip
+    assert lo is not None and hi is not None
+    if lo > hi:
+        out.add(node.location, path, f"min must not exceed max, got min {lo} and max {hi}")
+        return None
+    if typ is not None and not lo <= typ <= hi:
+        out.add(node.key_locations["typ"], f"{path}.typ",
+                f"must lie between min {lo} and max {hi}, got {typ}")  # fmt: skip
+        return None
+    return fitting.Range(lo, hi, typ)
+
+
+def _is_range(node: Node | None) -> bool:
+    return isinstance(node, Located) and isinstance(node.value, dict)
+
+
+def _ranges(given: dict[str, Node], keys: dict[str, Location], doc: Located,
+            result: Resolved, out: Collector) -> None:  # fmt: skip
+    """Resolve ``{min, typ, max}`` ranges against the ``fit:`` target, in place."""
+    range_nodes: dict[str, Located] = {}
+    clock_node = given.get("pixel_clock_hz")
+    if clock_node is not None and _is_range(clock_node):
+        assert isinstance(clock_node, Located)
+        range_nodes["pixel_clock_hz"] = clock_node
+    axes: dict[str, Located] = {}
+    for label in ("horizontal", "vertical"):
+        a = given.get(label)
+        if isinstance(a, Located) and isinstance(a.value, dict):
+            axes[label] = a
+            for k in AXIS_RANGED:
+                if _is_range(a.value.get(k)):
+                    n = a.value[k]
+                    assert isinstance(n, Located)
+                    range_nodes[f"{label}.{k}"] = n
+    fit_node = given.pop("fit", None)
+    fit_where = keys.pop("fit", doc.location)
+    if not range_nodes:
+        if fit_node is not None:
+            out.add(fit_where, "fit", "has nothing to choose: give at least one value as a "
+                                      "range {min, typ, max}")  # fmt: skip
+        return
+
+    # Parse every range, collecting problems.
+    ranges: dict[str, fitting.Range | None] = {}
+    for path, n in range_nodes.items():
+        if path == "pixel_clock_hz":
+            ranges[path] = _parse_range(n, "frequency", 0, path, out)
+        else:
+            minimum = 1 if path.endswith(".sync") else 0
+            ranges[path] = _parse_range(n, "int", minimum, path, out)
+    target: dict[str, Any] | None = None
+    if fit_node is None:
+        first = min(range_nodes.values(), key=lambda n: n.location).location
+        out.add(first, next(p for p, n in range_nodes.items() if n.location == first),
+                "a range needs a fit: section with a refresh or pixel_clock_hz target")  # fmt: skip
+    elif not _is_range(fit_node):
+        out.add(fit_where, "fit", f"must be a mapping of refresh, pixel_clock_hz, "
+                                  f"tolerance_percent, got {describe_node(fit_node)}")  # fmt: skip
+    else:
+        assert isinstance(fit_node, Located)
+        target = check_section(FIT_FIELDS, fit_node, "fit", out)
+
+    fit_at: dict[str, Location] = {}
+    if isinstance(fit_node, Located) and isinstance(fit_node.value, dict):
+        fit_at = {k: n.location for k, n in fit_node.value.items()}
+    solved = (_solve(given, keys, axes, ranges, target, fit_where, fit_at, out)
+              if target else None)  # fmt: skip
+    # Write the chosen numbers (or, after a problem, the typical ones) in place of the ranges.
+    for path, n in range_nodes.items():
+        value: Any
+        if solved is not None:
+            value = solved[path]
+        else:
+            r = ranges[path]
+            value = (int(round(r.target)) if path != "pixel_clock_hz" else r.target) if r else 1
+        if path == "pixel_clock_hz":
+            given["pixel_clock_hz"] = _scalar(value, n.location)
+        else:
+            label, k = path.split(".")
+            a = axes[label]
+            inner = dict(a.value)
+            inner[k] = _scalar(value, n.location)
+            axes[label] = Located(inner, a.location, dict(a.key_locations))
+            given[label] = axes[label]
+    if solved is not None:
+        result.origin = "fitted to datasheet ranges"
+        result.notes = tuple(solved["__notes__"])
+
+
+def _int_or_none(node: Node | None) -> int | None:
+    if isinstance(node, Scalar) and isinstance(node.value, int) and \
+            not isinstance(node.value, bool):  # fmt: skip
+        return node.value
+    return None
+
+
+def _solve(given: dict[str, Node], keys: dict[str, Location],
+           axes: dict[str, Located], ranges: dict[str, fitting.Range | None],
+           target: dict[str, Any], fit_where: Location, fit_at: dict[str, Location],
+           out: Collector) -> dict[str, Any] | None:  # fmt: skip
+    """Run the fitter when every input it needs is valid; report honestly when it falls short."""
+    if any(r is None for r in ranges.values()) or set(axes) != {"horizontal", "vertical"}:
+        return None  # problems already recorded (or recorded later by the validator)
+    built: dict[str, fitting.AxisRanges] = {}
+    for label, a in axes.items():
+        active = _int_or_none(a.value.get("active"))
+        pol = a.value.get("sync_polarity")
+        parts: dict[str, fitting.Range] = {}
+        for k in AXIS_RANGED:
+            path = f"{label}.{k}"
+            if path in ranges:
+                r = ranges[path]
+                assert r is not None
+                parts[k] = r
+            else:
+                fixed_value = _int_or_none(a.value.get(k))
+                if fixed_value is None:
+                    return None  # the validator reports it
+                parts[k] = fitting.Range.fixed(fixed_value)
+        if active is None or not isinstance(pol, Scalar):
+            return None
+        built[label] = fitting.AxisRanges(active, parts["front_porch"], parts["sync"],
+                                          parts["back_porch"], str(pol.value))  # fmt: skip
+
+    board = target["pixel_clock_hz"]
+    if "pixel_clock_hz" in ranges:
+        clock_range = ranges["pixel_clock_hz"]
+        assert clock_range is not None
+        if board is not None:
+            if board not in clock_range:
+                out.add(fit_at.get("pixel_clock_hz", fit_where), "fit.pixel_clock_hz",
+                        f"lies outside the datasheet range {hz(clock_range.min)} .. "
+                        f"{hz(clock_range.max)}, got {hz(board)}")  # fmt: skip
+                return None
+            clock_range = fitting.Range.fixed(board)
+    else:
+        node = given.get("pixel_clock_hz")
+
+        fixed_clock = parse_frequency(node.value) if isinstance(node, Scalar) else None
+        if board is not None and node is not None:
+            out.add(fit_at.get("pixel_clock_hz", fit_where), "fit.pixel_clock_hz",
+                    f"conflicts with pixel_clock_hz (at {keys['pixel_clock_hz']}); give the "
+                    "board clock once")  # fmt: skip
+            return None
+        if board is not None:
+            fixed_clock = board
+            given["pixel_clock_hz"] = _scalar(board, fit_where)
+            keys["pixel_clock_hz"] = fit_where
+        if fixed_clock is None or fixed_clock <= 0:
+            return None  # missing or invalid: the validator reports it
+        clock_range = fitting.Range.fixed(fixed_clock)
+    if target["refresh"] is None and clock_range.typ is None:
+        out.add(fit_where, "fit.refresh", "required key is missing (the clock range has no typ "
+                                          "to take the target from)")  # fmt: skip
+        return None
+    tolerance = Fraction(target["tolerance_percent"]) / 100
+    try:
+        res = fitting.fit(built["horizontal"], built["vertical"], clock_range,
+                          refresh=target["refresh"], tolerance=tolerance)  # fmt: skip
+    except fitting.FitError as exc:
+        out.add(fit_where, "fit", str(exc))
+        return None
+    off = f"{'+' if res.error >= 0 else ''}{fixed(res.error * 100, 3)} %"
+    landed = (f"target {fixed(res.target_refresh_hz, 3)} Hz, landed at "
+              f"{fixed(res.refresh_hz, 3)} Hz ({off})")  # fmt: skip
+    bound = f"; limited by {', '.join(res.bounds)}" if res.bounds else ""
+    if not res.met:
+        out.add(fit_where, "fit",
+                f"no values inside the datasheet ranges reach the target within "
+                f"{fixed(tolerance * 100, 2)} %: {landed}{bound}")  # fmt: skip
+    solved: dict[str, Any] = {"pixel_clock_hz": res.pixel_clock_hz}
+    for label, chosen in (("horizontal", res.horizontal), ("vertical", res.vertical)):
+        for k in AXIS_RANGED:
+            solved[f"{label}.{k}"] = getattr(chosen, k)
+    solved["__notes__"] = [landed + bound]
+    return solved

@@ -1,0 +1,222 @@
+"""Host side of simulation: build with cocotb's runner, run a bench from ``sim/``, collect results.
+
+The benches (code that runs inside the simulator) live in the top-level
+``sim/`` folder, shipped in the wheel as ``synccore/sim``.  Builds are cached
+by the hash of everything that goes into them, so each core is compiled once
+per machine (Verilator builds take tens of seconds); runs happen in their own
+folders.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import fcntl
+import hashlib
+import json
+import os
+import shutil
+import sys
+from collections.abc import Iterator, Mapping
+from dataclasses import dataclass
+from pathlib import Path
+
+from synccore.emit.bench.harness import HARNESS_TOP, render_harness
+from synccore.emit.files import core_artifacts
+from synccore.spec import Spec, to_dict
+from synccore.verification.tools import INSTALL_HINT, build_env, find
+
+VHDL_STANDARDS = {"93": "--std=93", "08": "--std=08"}
+_GENERIC = {"events": "events_path", "stop": "stop_at"}
+VERILATOR_ARGS = ["--timing", "-CFLAGS", "-std=c++20 -fcoroutines", "-Wno-fatal", "-O2"]
+
+
+def sim_dir() -> Path:
+    """The benches folder: inside the installed package, or at the top of a source checkout."""
+    package = Path(__file__).resolve().parent.parent
+    for candidate in (package / "sim", package.parent / "sim"):
+        if (candidate / "contract_bench.py").is_file():
+            return candidate
+    raise FileNotFoundError("synccore sim folder not found")  # pragma: no cover
+
+
+def cache_dir() -> Path:
+    """Where builds are kept: $SYNCCORE_CACHE, else ~/.cache/synccore/builds."""
+    env = os.environ.get("SYNCCORE_CACHE")
+    return Path(env) if env else Path.home() / ".cache" / "synccore" / "builds"
+
+
+class SimulatorMissing(RuntimeError):
+    """The requested simulator is not installed; the message says how to get it."""
+
+
+@dataclass(frozen=True)
+class SimResult:
+    tests: int
+    failed: int
+    log: Path
+    run_dir: Path
+    build_dir: Path
+
+    @property
+    def passed(self) -> bool:
+        return self.tests > 0 and self.failed == 0
+
+
+@contextlib.contextmanager
+def _environ(extra: Mapping[str, str]) -> Iterator[None]:
+    saved = {k: os.environ.get(k) for k in extra}
+    os.environ.update(extra)
+    try:
+        yield
+    finally:
+        for k, v in saved.items():
+            if v is None:
+                os.environ.pop(k, None)
+            else:
+                os.environ[k] = v
+
+
+def _sources(spec: Spec, language: str, harness: bool, core_text: str | None) -> dict[str, str]:
+    suffix = ".v" if language == "verilog" else ".vhd"
+    core = core_text
+    if core is None:
+        core = next(a.text for a in core_artifacts(spec) if a.name.endswith(suffix))
+    files = {spec.name + suffix: core}
+    if harness:
+        files[HARNESS_TOP + suffix] = render_harness(spec, language)
+    return files
+
+
+def run_bench(
+    spec: Spec,
+    *,
+    simulator: str,
+    run_dir: Path,
+    bench: str = "contract_bench",
+    harness: bool = False,
+    vhdl_std: str = "08",
+    env: Mapping[str, str] | None = None,
+    waves: bool = False,
+    core_text: str | None = None,
+    harness_args: dict[str, str | int] | None = None,
+) -> SimResult:
+    """Build ``spec``'s core (with the measurement harness if asked) and run ``bench`` on it.
+
+    ``core_text`` replaces the emitted core (used to show that benches catch faulty cores).
+    ``harness_args`` go to the harness as plusargs ``+synccore_<name>=<value>`` (Verilog) or
+    generics (VHDL).
+    """
+    from cocotb_tools.check_results import get_results
+    from cocotb_tools.runner import get_runner
+
+    tool = find(simulator)
+    if tool is None:
+        raise SimulatorMissing(f"simulator {simulator!r} not found: {INSTALL_HINT[simulator]}")
+    language = tool.languages[0]
+    files = _sources(spec, language, harness, core_text)
+    top = HARNESS_TOP if harness else spec.name
+    build_args: list[str] = []
+    test_args: list[str] = []
+    plusargs: list[str] = []
+    parameters: dict[str, object] = {}
+    for name, value in (harness_args or {}).items():
+        if language == "verilog":
+            plusargs.append(f"+synccore_{name}={value}")
+        else:
+            parameters[_GENERIC[name]] = value
+    if simulator == "ghdl":
+        build_args = test_args = [VHDL_STANDARDS[vhdl_std]]
+    elif simulator == "verilator" and harness:
+        build_args = list(VERILATOR_ARGS)
+    key = hashlib.sha256(
+        json.dumps([simulator, build_args, waves, top, sorted(files.items())]).encode()
+    ).hexdigest()[:24]
+    # Wave files land in the build folder: a run that records them builds privately.
+    build_dir = run_dir / "build" if waves else cache_dir() / f"{simulator}-{key}"
+
+    run_dir.mkdir(parents=True, exist_ok=True)
+    spec_json = run_dir / "spec.json"
+    spec_json.write_text(json.dumps(to_dict(spec)))
+    extra = build_env(tool, cache_dir())
+    extra.update(env or {})
+    extra["SYNCCORE_SPEC_JSON"] = str(spec_json)
+    bench_dir = str(sim_dir())
+    if bench_dir not in sys.path:
+        sys.path.insert(0, bench_dir)
+    log = run_dir / "sim.log"
+    results = run_dir / "results.xml"
+    results.unlink(missing_ok=True)
+
+    with _environ(extra):
+        runner = get_runner(simulator)
+        _build(runner, build_dir, files, top, build_args, waves)
+        # GHDL keeps its work library in the build folder and must run there.
+        test_dir = build_dir if simulator == "ghdl" else run_dir
+        # The runner judges results itself (and exits) when it sees pytest; we judge them
+        # here, the same way from the command line and from the tests.
+        pytest_test = os.environ.pop("PYTEST_CURRENT_TEST", None)
+        try:
+            with locked(build_dir) if simulator == "ghdl" else contextlib.nullcontext():
+                runner.test(
+                    test_module=bench,
+                    hdl_toplevel=top,
+                    hdl_toplevel_lang=language,
+                    build_dir=build_dir,
+                    test_dir=test_dir,
+                    test_args=test_args,
+                    extra_env=extra,
+                    timescale=("1ns", "1ps"),
+                    log_file=log,
+                    results_xml=str(results.resolve()),
+                    waves=waves,
+                    plusargs=plusargs,
+                    parameters=parameters,
+                )
+        except SystemExit:
+            pass  # the simulator exited non-zero; the results file (if any) says more
+        finally:
+            if pytest_test is not None:
+                os.environ["PYTEST_CURRENT_TEST"] = pytest_test
+    if not results.is_file():
+        return SimResult(0, 1, log, run_dir, build_dir)
+    tests, failed = get_results(results)
+    return SimResult(tests, failed, log, run_dir, build_dir)
+
+
+@contextlib.contextmanager
+def locked(folder: Path) -> Iterator[None]:
+    folder.parent.mkdir(parents=True, exist_ok=True)
+    with open(folder.parent / f"{folder.name}.lock", "w") as lock:
+        fcntl.flock(lock, fcntl.LOCK_EX)
+        try:
+            yield
+        finally:
+            fcntl.flock(lock, fcntl.LOCK_UN)
+
+
+def _build(runner: object, build_dir: Path, files: dict[str, str], top: str,
+           build_args: list[str], waves: bool) -> None:  # fmt: skip
+    """Build once per content hash; concurrent builders of the same folder wait for each other."""
+    done = build_dir / ".synccore-built"
+    with locked(build_dir):
+        if done.is_file():
+            return
+        if build_dir.exists():
+            shutil.rmtree(build_dir)
+        src = build_dir / "src"
+        src.mkdir(parents=True)
+        paths = []
+        for name, text in files.items():
+            (src / name).write_text(text, encoding="utf-8")
+            paths.append(src / name)
+        runner.build(  # type: ignore[attr-defined]
+            sources=paths,
+            hdl_toplevel=top,
+            build_dir=build_dir,
+            build_args=build_args,
+            timescale=("1ns", "1ps"),
+            always=True,
+            waves=waves,
+            log_file=build_dir / "build.log",
+        )
+        done.write_text("ok\n")
