@@ -9,7 +9,7 @@ import pytest
 
 import synccore
 from synccore.verification.tools import Tool
-from tests import timings
+from tests import samples as timings
 from tests.conftest import EXAMPLES
 from tests.hdl import ghdl_analyse, iverilog_compile, verilator_lint
 

@@ -1,11 +1,10 @@
 """Emitted text: golden files for every example, determinism, and the header's contents.
 
-Golden files are refreshed only on purpose: SYNCCORE_UPDATE_GOLDEN=1 pytest tests/test_emit.py
+Golden files are refreshed only on purpose (see tests/golden_files.py).
 """
 
 from __future__ import annotations
 
-import os
 import re
 from pathlib import Path
 
@@ -13,10 +12,10 @@ import pytest
 
 import synccore
 from synccore.emit._jinja import templates_dir
-from tests import timings
+from tests import golden_files
+from tests import samples as timings
 from tests.conftest import EXAMPLES
 
-GOLDEN = Path(__file__).parent / "golden"
 RENDERERS = {".v": synccore.render_verilog, ".vhd": synccore.render_vhdl}
 
 
@@ -25,12 +24,7 @@ RENDERERS = {".v": synccore.render_verilog, ".vhd": synccore.render_vhdl}
 def test_golden(example: Path, suffix: str) -> None:
     spec = synccore.load(example)
     text = RENDERERS[suffix](spec)
-    golden = GOLDEN / (example.stem + suffix)
-    if os.environ.get("SYNCCORE_UPDATE_GOLDEN") == "1":
-        GOLDEN.mkdir(exist_ok=True)
-        golden.write_text(text)
-    assert golden.is_file(), f"no golden file {golden}; run with SYNCCORE_UPDATE_GOLDEN=1"
-    assert text == golden.read_text(), f"{golden} differs; refresh it on purpose if intended"
+    golden_files.check(example.stem + suffix, text)
 
 
 @pytest.mark.parametrize("suffix", list(RENDERERS))

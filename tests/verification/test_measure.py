@@ -16,7 +16,7 @@ import synccore
 from synccore.verification.engines import run_engine
 from synccore.verification.measure import compare, failures
 from synccore.verification.tools import Tool
-from tests import timings
+from tests import samples as timings
 from tests.conftest import EXAMPLES
 
 pytestmark = pytest.mark.sim

@@ -13,7 +13,7 @@ import yaml
 from click.testing import CliRunner
 
 from synccore.cli.main import main
-from tests import timings
+from tests import samples as timings
 from tests.conftest import EXAMPLES
 
 

@@ -11,8 +11,8 @@ from click.testing import CliRunner
 
 import synccore
 from synccore.cli.main import main
-from tests import timings
-from tests.test_verify import TIMINGS
+from tests import samples as timings
+from tests.verification.test_measure import TIMINGS
 
 pytestmark = pytest.mark.sim
 

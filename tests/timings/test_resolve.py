@@ -15,7 +15,7 @@ from synccore.cli.main import main
 from synccore.errors import SpecError
 from synccore.spec.schema import json_schema
 
-EXAMPLES = sorted((Path(__file__).parent.parent / "examples").glob("*.yaml"))
+EXAMPLES = sorted((Path(__file__).parents[2] / "examples").glob("*.yaml"))
 
 
 def problems(text: str) -> list[str]:

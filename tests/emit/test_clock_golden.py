@@ -1,12 +1,10 @@
 """Golden text of the clock wrappers and constraints, refreshed only on purpose.
 
-Run with SYNCCORE_REFRESH_GOLDEN=1 to rewrite the files after a deliberate
-change, then review the diff.
+Refresh them only after a deliberate change (see tests/golden_files.py), then read the diff.
 """
 
 from __future__ import annotations
 
-import os
 from fractions import Fraction
 from pathlib import Path
 
@@ -16,8 +14,7 @@ from synccore import loads
 from synccore.clocking import FAMILIES
 from synccore.clocking.plan import make_plan
 from synccore.emit.files import clock_artifacts
-
-GOLDEN = Path(__file__).parent / "golden" / "clocking"
+from tests import golden_files
 
 # VESA DMT 640x480@60 (DMT ID 04h, as in the Linux kernel's drm_dmt_modes[])
 DMT_640 = """\
@@ -44,10 +41,5 @@ def test_golden(case: str) -> None:
     spec = loads(DMT_640, source="examples/vga.yaml")
     plan = make_plan(spec, f_board=Fraction(board_mhz * 10**6),
                      family=FAMILIES[key] if key else None)  # fmt: skip
-    folder = GOLDEN / case
     for a in clock_artifacts(plan):
-        path = folder / a.name
-        if os.environ.get("SYNCCORE_REFRESH_GOLDEN"):
-            folder.mkdir(parents=True, exist_ok=True)
-            path.write_text(a.text, encoding="utf-8", newline="\n")
-        assert path.read_text(encoding="utf-8") == a.text, f"{path} differs"
+        golden_files.check(Path("clocking", case, a.name), a.text)

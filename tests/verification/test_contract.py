@@ -14,7 +14,7 @@ import pytest
 import synccore
 from synccore.verification.simulate import run_bench
 from synccore.verification.tools import Tool
-from tests import timings
+from tests import samples as timings
 
 pytestmark = pytest.mark.sim
 

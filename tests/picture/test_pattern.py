@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import os
 from collections.abc import Callable
 from pathlib import Path
 
@@ -16,7 +15,8 @@ from synccore.emit.first_light.pattern import pattern_context
 from synccore.model.pattern import PATTERNS, bar_bounds, levels, pattern_problems
 from synccore.spec import Color
 from synccore.verification.tools import Tool
-from tests import timings
+from tests import golden_files
+from tests import samples as timings
 from tests.conftest import EXAMPLES
 from tests.hdl import GHDL_WARNINGS, run
 
@@ -137,7 +137,6 @@ def test_build_pattern_cli(tmp_path: Path, write_spec) -> None:  # type: ignore[
     assert not (tmp_path / "t").exists()
 
 
-GOLDEN = Path(__file__).parent / "golden"
 _PICTURE_EXAMPLES = [p for p in EXAMPLES if not pattern_problems(synccore.load(p))]
 
 
@@ -147,8 +146,4 @@ def test_golden_first_light(example: Path) -> None:
     spec = synccore.load(example)
     pattern = PATTERNS[_PICTURE_EXAMPLES.index(example) % len(PATTERNS)]  # one pattern per example
     for a in pattern_artifacts(spec, pattern):
-        golden = GOLDEN / (example.stem + a.name[len(spec.name):])
-        if os.environ.get("SYNCCORE_UPDATE_GOLDEN") == "1":
-            golden.write_text(a.text)
-        assert golden.is_file(), f"no golden file {golden}; run with SYNCCORE_UPDATE_GOLDEN=1"
-        assert a.text == golden.read_text(), f"{golden} differs; refresh it on purpose if intended"
+        golden_files.check(example.stem + a.name[len(spec.name):], a.text)

@@ -10,7 +10,7 @@ from click.testing import CliRunner
 
 from synccore.cli.main import main
 from synccore.verification.tools import Tool
-from tests import timings
+from tests import samples as timings
 
 pytestmark = pytest.mark.sim
 

@@ -18,8 +18,8 @@ from synccore.picture.monitor import watch
 from synccore.picture.run import simulate
 from synccore.verification.engines import verify
 from synccore.verification.tools import Tool
-from tests import timings
-from tests.test_pattern_sim import SMALL, expected_image
+from tests import samples as timings
+from tests.picture.test_pattern_sim import SMALL, expected_image
 
 
 @pytest.mark.sim

@@ -9,7 +9,7 @@ import pytest
 
 import synccore
 from synccore.units import fixed, hz, in_unit
-from tests import timings
+from tests import samples as timings
 
 
 def t_of(text: str) -> synccore.Timing:

@@ -24,7 +24,7 @@ from synccore.picture.monitor import Pulses, parse_range, read_syncs, watch
 from synccore.picture.run import model_pins
 from synccore.spec import Axis, Color, Spec
 from synccore.timings.modes import Mode, library
-from tests.test_pattern_sim import expected_image
+from tests.picture.test_pattern_sim import expected_image
 
 VGA = Spec(
     name="vga",
