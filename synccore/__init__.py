@@ -1,32 +1,64 @@
 """synccore: display timing cores for FPGAs.
 
-A YAML timing description is validated into a :class:`Spec`, derived into a
-:class:`Timing` (the reference model every test checks against), and emitted
-as Verilog-2001 and VHDL cores.
+A YAML timing description is read into a :class:`Spec` (:func:`load`,
+:func:`loads`), derived into a :class:`Timing` (:func:`timing`; the reference
+model every test checks against), written as Verilog-2001 and VHDL cores with
+optional benches, test-pattern design and clock wrapper (:func:`write`,
+:func:`plan_clock`), and measured in simulation (:func:`verify`).  Standard
+timings come from :func:`find_mode`.
+
+This package exports the curated API of :mod:`synccore.api` and nothing else;
+docs/api.md describes it with a worked example.
 """
 
-from synccore._version import __version__
-from synccore.emit import render_verilog, render_vhdl
-from synccore.errors import Location, Problem, SpecError
-from synccore.model import Outputs, Timing, timing
-from synccore.spec import Axis, CoreOptions, Spec
-from synccore.spec.schema import json_schema
-from synccore.timings import load, loads
+from synccore.api import (
+    Axis,
+    ClockPlan,
+    CoreOptions,
+    Location,
+    Mode,
+    Outputs,
+    Problem,
+    Report,
+    Spec,
+    SpecError,
+    Timing,
+    ToolError,
+    __version__,
+    find_mode,
+    json_schema,
+    load,
+    loads,
+    plan_clock,
+    render_verilog,
+    render_vhdl,
+    timing,
+    verify,
+    write,
+)
 
 __all__ = [
     "Axis",
+    "ClockPlan",
     "CoreOptions",
     "Location",
+    "Mode",
     "Outputs",
     "Problem",
+    "Report",
     "Spec",
     "SpecError",
     "Timing",
+    "ToolError",
     "__version__",
+    "find_mode",
     "json_schema",
     "load",
     "loads",
+    "plan_clock",
     "render_verilog",
     "render_vhdl",
     "timing",
+    "verify",
+    "write",
 ]

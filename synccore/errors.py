@@ -1,8 +1,13 @@
-"""The one error type of synccore, and the located problems it carries.
+"""The error types of synccore: spec problems, and tool or clock problems.
 
-Every problem knows where in the user's file it comes from, so the command
-line can print it as ``file:line:col: field: message`` and a user can fix
-every problem of a file in one pass.
+:class:`SpecError` is about what a timing description says.  It carries every
+:class:`Problem` found, each knowing where in the user's file it comes from, so
+the command line can print it as ``file:line:col: field: message`` and a user
+can fix every problem of a file in one pass.
+
+:class:`ToolError` is about what the machine or the board can do: a simulator
+that is missing or cannot run, an unknown engine or FPGA family, a board clock
+that is not a frequency, a clock no setting can make.  It is one sentence.
 """
 
 from __future__ import annotations
@@ -47,3 +52,18 @@ class SpecError(Exception):
             key=lambda p: (p.location or Location("", 0, 0), p.field, p.message),
         )
         super().__init__("\n".join(str(p) for p in self.problems))
+
+
+class ToolError(Exception):
+    """Raised when a tool or a clock cannot do what was asked; ``str()`` is one line.
+
+    ``subject`` names what was wrong (a parameter such as ``board_clock_hz`` or
+    ``family``; empty when the sentence says it all) and ``message`` is the rule
+    and the bad value, so that the command line can put its own option name in
+    front of ``message``.
+    """
+
+    def __init__(self, message: str, *, subject: str = "") -> None:
+        self.message = message
+        self.subject = subject
+        super().__init__(f"{subject}: {message}" if subject else message)

@@ -10,7 +10,7 @@ harness as the HDL runs (irregular clock enable, lead delay, counters) and
 returns the same events, so ``synccore verify --sim builtin`` works with no
 simulator installed.  It checks this Amaranth model, not the emitted text.
 
-Import this module only when needed: Amaranth is an optional dependency.
+Import this module only when needed: Amaranth is a required dependency, but slow to import.
 """
 
 from __future__ import annotations

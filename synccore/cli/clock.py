@@ -1,9 +1,9 @@
 """The ``clock`` command and the ``build --clock`` options: from the board clock to the core clock.
 
-Thin, like :mod:`synccore.cli.main`: it resolves the board clock and family
+Thin, like :mod:`synccore.cli.main`: it picks the board clock and family
 (options first, then the spec's ``board`` section), asks
-:mod:`synccore.clocking.plan` for a plan and prints it.  Bad input is one
-line on stderr and exit status 2.
+:func:`synccore.api.plan_clock` for a plan and prints it.  Bad input is one
+line on stderr, naming the option, and exit status 2.
 """
 
 from __future__ import annotations
@@ -18,14 +18,14 @@ import click
 from rich.console import Console
 from rich.markup import escape
 
-from synccore.clocking import FAMILIES, FAMILY_KEYS, Family
-from synccore.clocking.plan import ClockPlan, make_plan
+from synccore.api import plan_clock
+from synccore.clocking import FAMILY_KEYS
+from synccore.clocking.plan import ClockPlan
 from synccore.clocking.report import adjustment_facts, plan_dict, plan_facts, ppm_text, route_text
-from synccore.emit.files import Artifact, clock_artifacts
-from synccore.errors import Problem, SpecError
-from synccore.spec import Spec, parse_frequency
+from synccore.errors import SpecError, ToolError
+from synccore.spec import Spec
 from synccore.timings import load
-from synccore.units import fixed, hz
+from synccore.units import fixed
 
 F = TypeVar("F", bound=Callable[..., Any])
 
@@ -60,54 +60,45 @@ def board_options(func: F) -> F:
 
 
 def resolve(spec: Spec, board_clock: str | None, family: str | None, no_pll: bool
-            ) -> tuple[Fraction, Family | None]:  # fmt: skip
+            ) -> tuple[str | Fraction, str | None]:  # fmt: skip
     """The board clock and family from the options, falling back on the spec's board section."""
+    board: str | Fraction
     if board_clock is not None:
-        f_board = parse_frequency(board_clock)
-        if f_board is None or f_board <= 0:
-            raise BadOption(f'--board-clock: must be a frequency like "12MHz" or "27 MHz", '
-                            f"got {board_clock!r}")  # fmt: skip
+        board = board_clock
     elif spec.board.clock_hz is not None:
-        f_board = spec.board.clock_hz
+        board = spec.board.clock_hz
     else:
         raise BadOption("--board-clock: no board clock given; pass --board-clock or set "
                         "board.clock_hz in the spec")  # fmt: skip
     if no_pll:
-        return f_board, None
-    key = family if family is not None else spec.board.family
-    if key is None:
-        return f_board, None
-    if key not in FAMILIES:
-        raise BadOption(f"--family: unknown FPGA family {key!r}; choose from "
-                        f"{', '.join(FAMILY_KEYS)}")  # fmt: skip
-    return f_board, FAMILIES[key]
+        return board, None
+    return board, family if family is not None else spec.board.family
 
 
-def plan_for(spec: Spec, board_clock: str | None, family: str | None, no_pll: bool) -> ClockPlan:
-    f_board, fam = resolve(spec, board_clock, family, no_pll)
-    return make_plan(spec, f_board=f_board, family=fam)
+_OPTION = {"board_clock_hz": "--board-clock", "family": "--family"}
+"""The option that gave each argument of :func:`synccore.api.plan_clock`."""
 
 
-def build_clock_artifacts(spec: Spec, board_clock: str | None, family: str | None,
-                          no_pll: bool) -> tuple[ClockPlan, list[Artifact]]:  # fmt: skip
-    """For ``build --clock``: the plan and its wrapper and constraint files; exits on bad input."""
+def plan_for(spec: Spec, board_clock: str | None, family: str | None, no_pll: bool, *,
+             strict: bool) -> ClockPlan:  # fmt: skip
+    """The plan for the options; :class:`BadOption` naming the option when it cannot be made."""
+    board, key = resolve(spec, board_clock, family, no_pll)
     try:
-        plan = plan_for(spec, board_clock, family, no_pll)
+        return plan_clock(spec, board, key, strict=strict)
+    except ToolError as err:
+        if err.subject in _OPTION:
+            raise BadOption(f"{_OPTION[err.subject]}: {err.message}") from None
+        raise BadOption(f"--clock: {err}; run 'synccore clock' for details") from None
+
+
+def build_plan(spec: Spec, board_clock: str | None, family: str | None,
+               no_pll: bool) -> ClockPlan:  # fmt: skip
+    """For ``build --clock``: a plan with a setting that reaches the core clock; exits on bad input."""
+    try:
+        return plan_for(spec, board_clock, family, no_pll, strict=True)
     except BadOption as err:
         _exit([str(err)])
         raise AssertionError from err  # pragma: no cover - _exit exits
-    best = plan.best
-    if best is None:
-        key = plan.family.key if plan.family else ""
-        _exit([f"--clock: no PLL setting of {key} reaches {hz(plan.target)} from "
-               f"{hz(plan.f_board)}; run 'synccore clock' for details"])  # fmt: skip
-    if plan.family is None and plan.enable is not None and plan.enable.divide > 1:
-        if not spec.core.clock_enable:
-            raise SpecError([Problem(None, "core.clock_enable",
-                                     "must be true for the clock-enable route "
-                                     f"(ce every {plan.enable.divide} cycles of "
-                                     f"{hz(plan.f_board)}), got false")])  # fmt: skip
-    return plan, clock_artifacts(plan)
 
 
 def _print_facts(rows: list[tuple[str, str]], console: Console) -> None:
@@ -152,7 +143,7 @@ def clock(spec: str, board_clock: str | None, family: str | None, no_pll: bool,
         _exit([str(p) for p in err.problems])
         return
     try:
-        plan = plan_for(s, board_clock, family, no_pll)
+        plan = plan_for(s, board_clock, family, no_pll, strict=False)
     except BadOption as err:
         _exit([str(err)])
         return

@@ -11,11 +11,11 @@ from rich.console import Console
 from rich.table import Table
 
 from synccore._version import __version__
-from synccore.cli.clock import board_options, build_clock_artifacts, clock, print_plan
-from synccore.emit.files import core_artifacts, pattern_artifacts, testbench_artifacts, write_artifacts
-from synccore.errors import SpecError
+from synccore.api import pick_engines, verify, write
+from synccore.cli.clock import board_options, build_plan, clock, print_plan
+from synccore.errors import SpecError, ToolError
 from synccore.model import Timing
-from synccore.model.pattern import PATTERNS, pattern_problems
+from synccore.model.pattern import PATTERNS
 from synccore.model.report import figures, options, timing_table
 from synccore.spec import Spec
 from synccore.spec.schema import json_schema
@@ -103,22 +103,14 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
     console = _console()
     if not with_clock and (board_clock or family or no_pll):
         _fail_line("--board-clock, --family and --no-pll need --clock")
-    artifacts = core_artifacts(s)
-    if with_testbench:
-        artifacts += testbench_artifacts(s)
-    if pattern is not None:
-        problems = pattern_problems(s)
-        if problems:
-            _fail_line(f"{s.source}: {problems[0]}")
-        artifacts += pattern_artifacts(s, pattern)
-    plan = None
+    plan = build_plan(s, board_clock, family, no_pll) if with_clock else None
     try:
-        if with_clock:
-            plan, extra = build_clock_artifacts(s, board_clock, family, no_pll)
-            artifacts += extra
-        written = write_artifacts(artifacts, out_dir, force=force)
+        written = write(s, out_dir, testbench=with_testbench, pattern=pattern, clock=plan,
+                        force=force)  # fmt: skip
     except SpecError as err:
         _fail(err)
+    except ToolError as err:
+        _fail_line(str(err))
     print_summary(s, console)
     if plan is not None:
         print_plan(plan, console)
@@ -186,25 +178,13 @@ def _run_verify(spec: Spec, *, engines: list[str] | None, frames: int, waves: bo
                 work_dir: str | None, console: Console) -> None:  # fmt: skip
     from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
 
-    from synccore.verification.engines import ENGINE_LANGUAGE, available_engines, cocotb_missing, verify
-    from synccore.verification.tools import INSTALL_HINT
+    from synccore.verification.engines import ENGINE_LANGUAGE
 
-    found = available_engines()
-    if engines is None:
-        # The real simulators check the emitted text; the built-in engine (much slower, and
-        # checking the Amaranth model) is the fallback when none is installed.
-        engines = [e for e in found if e != "builtin"] or found
-        if not engines:
-            click.echo("no engine found: install a simulator (see README) or Amaranth", err=True)
-            sys.exit(2)
-    missing = [e for e in engines if e not in found]
-    if missing:
-        for e in missing:
-            hint = INSTALL_HINT.get(e, "install the PyPI package 'amaranth'")
-            if e in INSTALL_HINT and cocotb_missing():
-                hint = "the simulators run through cocotb: pip install 'synccore[sim]'"
-            click.echo(f"engine {e!r} not found: {hint}", err=True)
-        sys.exit(2)
+    try:
+        engines = pick_engines(engines)
+    except ToolError as err:
+        _fail_line(str(err))
+        return
     t = Timing(spec)
     with Progress(TextColumn("{task.description:<10}"), BarColumn(), MofNCompleteColumn(),
                   TextColumn("frames"), TimeElapsedColumn(), console=console,

@@ -1,0 +1,286 @@
+"""The Python API: read a timing, write its files, plan its clock, verify it.
+
+Every function here is re-exported from :mod:`synccore`; docs/api.md shows
+them at work.  The command line calls the same functions, so a script and
+``synccore build`` write the same files and meet the same errors:
+
+* :class:`SpecError` for what a timing description says (every problem, located);
+* :class:`ToolError` for what the machine or the board cannot do (one sentence);
+* ``ValueError`` and ``TypeError`` for arguments a caller got wrong.
+
+Options are keyword-only.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from decimal import Decimal
+from fractions import Fraction
+from pathlib import Path
+
+from synccore._version import __version__
+from synccore.clocking import FAMILIES, FAMILY_KEYS, Family
+from synccore.clocking.plan import ClockPlan, make_plan
+from synccore.emit import render_verilog, render_vhdl
+from synccore.emit.files import (
+    clock_artifacts,
+    core_artifacts,
+    pattern_artifacts,
+    testbench_artifacts,
+    write_artifacts,
+)
+from synccore.errors import Location, Problem, SpecError, ToolError
+from synccore.model import Outputs, Timing, timing
+from synccore.model.pattern import PATTERNS, pattern_problems
+from synccore.spec import Axis, CoreOptions, Spec, parse_frequency
+from synccore.spec.schema import json_schema
+from synccore.timings import load, loads
+from synccore.timings.modes import Mode, ModeLookupError, find
+from synccore.units import hz
+from synccore.verification.engines import (
+    ENGINES,
+    Progress,
+    Report,
+    available_engines,
+    cocotb_missing,
+)
+from synccore.verification.engines import verify as run_engines
+from synccore.verification.tools import INSTALL_HINT
+
+__all__ = [
+    "Axis",
+    "ClockPlan",
+    "CoreOptions",
+    "Location",
+    "Mode",
+    "Outputs",
+    "Problem",
+    "Report",
+    "Spec",
+    "SpecError",
+    "Timing",
+    "ToolError",
+    "__version__",
+    "find_mode",
+    "json_schema",
+    "load",
+    "loads",
+    "plan_clock",
+    "render_verilog",
+    "render_vhdl",
+    "timing",
+    "verify",
+    "write",
+]
+
+
+def write(
+    spec: Spec,
+    out_dir: str | Path,
+    *,
+    testbench: bool = False,
+    pattern: str | None = None,
+    clock: ClockPlan | None = None,
+    force: bool = False,
+) -> list[Path]:
+    """Write the files of ``spec`` into ``out_dir``, all of them or none; return their paths.
+
+    Always the core, ``<name>.v`` and ``<name>.vhd``.  ``testbench=True`` adds the
+    self-checking benches ``<name>_tb.v`` and ``<name>_tb.vhd``.  ``pattern`` (one of
+    ``bars``, ``grid``, ``gradient``, ``checker``, ``edges``) adds the test-pattern
+    generator and the first-light top level, ``<name>_pattern.*`` and ``<name>_top.*``.
+    ``clock`` (a plan from :func:`plan_clock` for this spec) adds the PLL or
+    clock-enable wrapper ``<name>_clock.v``/``.vhd`` and its SDC or XDC constraints.
+
+    The folder is created if missing.  An existing file is replaced only if
+    synccore generated it, or with ``force=True``.
+
+    Raises :class:`SpecError` with every problem when the spec cannot have what
+    was asked (the pattern design needs one pixel per clock and a minimum active
+    area; the clock-enable route needs ``core.clock_enable``) or when a file may
+    not be replaced; :class:`ToolError` when ``clock`` has no setting that reaches
+    the core clock; ``ValueError`` for an unknown pattern or a plan made for
+    another spec.  Nothing is written when anything is raised.
+    """
+    problems: list[Problem] = []
+    if pattern is not None:
+        if pattern not in PATTERNS:
+            raise ValueError(f"unknown pattern {pattern!r}; choose from {', '.join(PATTERNS)}")
+        problems += [Problem(None, "", f"{spec.source}: {p}") for p in pattern_problems(spec)]
+    if clock is not None:
+        if clock.spec != spec:
+            raise ValueError(f"the clock plan was made for the spec {clock.spec.name!r} "
+                             f"({clock.spec.source}), not for this one ({spec.source})")  # fmt: skip
+        _check_reached(clock)
+        problems += _clock_enable_problems(clock)
+    if problems:
+        raise SpecError(problems)
+    artifacts = core_artifacts(spec)
+    if testbench:
+        artifacts += testbench_artifacts(spec)
+    if pattern is not None:
+        artifacts += pattern_artifacts(spec, pattern)
+    if clock is not None:
+        artifacts += clock_artifacts(clock)
+    return write_artifacts(artifacts, out_dir, force=force)
+
+
+def _clock_enable_problems(plan: ClockPlan) -> list[Problem]:
+    """The clock-enable route drives the core's ce input: the core must have one."""
+    enable = plan.enable
+    if plan.family is not None or enable is None or enable.divide == 1:
+        return []
+    if plan.spec.core.clock_enable:
+        return []
+    return [Problem(None, "core.clock_enable",
+                    f"must be true for the clock-enable route (ce every {enable.divide} "
+                    f"cycles of {hz(plan.f_board)}), got false")]  # fmt: skip
+
+
+def _check_reached(plan: ClockPlan) -> None:
+    # The clock-enable route always has a setting (the nearest division); a PLL may have none.
+    if plan.best is None and plan.family is not None:
+        raise ToolError(f"no PLL setting of {plan.family.key} reaches {hz(plan.target)} "
+                        f"from {hz(plan.f_board)}")  # fmt: skip
+
+
+def pick_engines(engines: Sequence[str] | None = None) -> list[str]:
+    """The engines :func:`verify` runs for ``engines``; raises :class:`ToolError` if it cannot.
+
+    ``None`` means every simulator found here (Icarus Verilog, GHDL, Verilator),
+    or the built-in engine (Amaranth's simulator on the Amaranth model) when none
+    is.  Otherwise every name must be one of ``icarus``, ``ghdl``, ``verilator``,
+    ``builtin`` and must be able to run here.
+    """
+    found = available_engines()
+    if engines is None:
+        # The real simulators check the emitted text; the built-in engine (much slower, and
+        # checking the Amaranth model) is the fallback when none is installed.
+        chosen = [e for e in found if e != "builtin"] or found
+        if not chosen:
+            raise ToolError("no engine found: install a simulator (see README) or Amaranth")
+        return chosen
+    if isinstance(engines, str):
+        raise TypeError(f"engines must be a list of names, like [{engines!r}], not a string")
+    names = list(engines)
+    unknown = [n for n in names if n not in ENGINES]
+    if unknown or not names:
+        what = f"unknown engine {unknown[0]!r}" if unknown else "no engine named"
+        raise ToolError(f"{what}; choose from {', '.join(ENGINES)}")
+    missing = [n for n in names if n not in found]
+    if missing:
+        raise ToolError("; ".join(f"engine {n!r} not found: {_install_hint(n)}" for n in missing))
+    return names
+
+
+def _install_hint(engine: str) -> str:
+    if engine not in INSTALL_HINT:
+        return "install the PyPI package 'amaranth'"
+    if cocotb_missing():
+        return "the simulators run through cocotb: pip install 'synccore[sim]'"
+    return INSTALL_HINT[engine]
+
+
+def verify(
+    spec: Spec,
+    *,
+    engines: Sequence[str] | None = None,
+    frames: int = 2,
+    waves: bool = False,
+    work_dir: str | Path | None = None,
+    progress: Progress | None = None,
+) -> Report:
+    """Run the core of ``spec`` on each engine for ``frames`` frames and measure it.
+
+    ``engines=None`` runs every simulator found (the built-in engine only when
+    there is none); a list names them: ``icarus``, ``ghdl``, ``verilator``,
+    ``builtin``.  The report's ``rows`` compare each measured figure (totals,
+    porches, sync widths and polarities, data enable, counters, frame and line
+    strobes) with the timing model, one column per engine; ``report.ok`` is true
+    when every engine ran and every figure matches, and ``report.problems()``
+    lists what did not.  A mismatch is a result, not an exception.
+
+    ``waves=True`` keeps waveform files of each run (listed in ``report.runs``),
+    under ``work_dir`` (default ``./<name>_verify``); without waves, runs go to a
+    temporary folder unless ``work_dir`` is given.  ``progress`` is called with
+    ``(engine, frames done)`` as runs go.
+
+    Raises :class:`ToolError` for an unknown engine or one that cannot run here,
+    ``ValueError`` for fewer than 2 frames (a frame's figures are measured
+    between two frame starts).
+    """
+    if isinstance(frames, bool) or not isinstance(frames, int) or frames < 2:
+        raise ValueError(f"frames must be a whole number of at least 2, got {frames!r}")
+    names = pick_engines(engines)
+    return run_engines(spec, engines=names, frames=frames, waves=waves,
+                       work_dir=Path(work_dir) if work_dir is not None else None,
+                       progress=progress)  # fmt: skip
+
+
+def _board_clock(value: object) -> Fraction:
+    number = Fraction(value) if isinstance(value, Decimal) and value.is_finite() else value
+    try:
+        f_board = parse_frequency(number)
+    except (ArithmeticError, ValueError):  # a float infinity or NaN
+        f_board = None
+    if f_board is None or f_board <= 0:
+        raise ToolError(f'must be a frequency like "12MHz" or "27 MHz", got {value!r}',
+                        subject="board_clock_hz")  # fmt: skip
+    return f_board
+
+
+def _family(key: object) -> Family | None:
+    if key is None:
+        return None
+    if not isinstance(key, str) or key not in FAMILIES:
+        raise ToolError(f"unknown FPGA family {key!r}; choose from {', '.join(FAMILY_KEYS)}",
+                        subject="family")  # fmt: skip
+    return FAMILIES[key]
+
+
+def plan_clock(
+    spec: Spec,
+    board_clock_hz: int | float | Fraction | Decimal | str,
+    family: str | None,
+    *,
+    strict: bool = True,
+) -> ClockPlan:
+    """Plan the core clock of ``spec`` from the board's oscillator.
+
+    ``board_clock_hz`` is a number in Hz or a string with a unit (``"12 MHz"``).
+    ``family`` names the FPGA family whose PLL makes the clock (``ice40``,
+    ``ecp5``, ``xc7-mmcm``, ``xc7-pll``, ``gowin``, ``cyclone``); ``None`` runs the
+    core on the board clock with a clock enable instead.  The spec's own
+    ``board`` section is not consulted: pass ``spec.board.clock_hz`` and
+    ``spec.board.family`` to use it.
+
+    The plan holds the best setting and the runners-up, the rates the display
+    will see, and, when the best misses the monitors' tolerance, a horizontal
+    total that would keep line rate and refresh on target.  Pass it to
+    :func:`write` as ``clock`` to write the wrapper and constraints.
+
+    Raises :class:`ToolError` for a board clock that is not a frequency above
+    0 Hz, an unknown family, or (with ``strict=True``) when no setting of the
+    family reaches the core clock; ``strict=False`` returns such a plan
+    (``plan.best is None``) so that it can tell why.
+    """
+    plan = make_plan(spec, f_board=_board_clock(board_clock_hz), family=_family(family))
+    if strict:
+        _check_reached(plan)
+    return plan
+
+
+def find_mode(name: str) -> Mode:
+    """The library's standard timing (VESA DMT or CTA-861) that ``name`` names.
+
+    ``name`` is a mode (``"1280x720@60"``, ``"1920x1080@59.94"``, optionally
+    followed by ``dmt``, ``cta``, ``rb`` or ``std``) or a source (``"DMT 0x55"``,
+    ``"CTA VIC 4"``).  Raises ``ValueError`` when it names no entry, or several
+    entries whose timings differ.
+    """
+    if not isinstance(name, str):
+        raise TypeError(f"name must be a string like '1280x720@60', got {name!r}")
+    try:
+        return find(name)
+    except ModeLookupError as exc:
+        raise ModeLookupError(f"name: {exc}, got {name!r}") from None
