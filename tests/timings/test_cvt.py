@@ -2,7 +2,7 @@
 
 Two kinds of check values: DMT entries that the VESA DMT document itself marks
 as derived from CVT (standard blanking, reduced blanking, reduced blanking v2),
-taken from the library table (transcribed from the published DMT, see
+taken from the library table (whose values were taken from the published DMT, see
 tests/timings/test_modes.py for their provenance), and results recalled from the
 standards, marked "from memory".
 """
