@@ -156,9 +156,8 @@ def new_command(mode: str | None, out: str, method: str | None, video_optimized:
                 modeline_text: str | None, name: str | None, force: bool) -> None:  # fmt: skip
     """Write a complete, editable timing description for MODE.
 
-    MODE is a library name or source (`1280x720@60`, `DMT 55h` or `DMT 0x55`,
-    `CTA VIC 16`, `1280x768@60 rb`; see `synccore modes`), or WIDTHxHEIGHT@RATE with
-    --method.
+    MODE is a library name or source (`1280x720@60`, `DMT 55h` or `0x55`, `CTA VIC 16`,
+    `1280x768@60 rb`; see `synccore modes`), or WIDTHxHEIGHT@RATE with --method.
     """
     notes: tuple[str, ...]
     if modeline_text is not None:
