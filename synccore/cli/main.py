@@ -109,7 +109,7 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
     if pattern is not None:
         problems = pattern_problems(s)
         if problems:
-            _fail_line(f"{s.source}: {problems[0]}")
+            _fail(SpecError(problems))
         artifacts += pattern_artifacts(s, pattern)
     plan = None
     try:
