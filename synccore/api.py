@@ -106,7 +106,7 @@ def write(
     if pattern is not None:
         if pattern not in PATTERNS:
             raise ValueError(f"unknown pattern {pattern!r}; choose from {', '.join(PATTERNS)}")
-        problems += [Problem(None, "", f"{spec.source}: {p}") for p in pattern_problems(spec)]
+        problems += pattern_problems(spec)
     if clock is not None:
         if clock.spec != spec:
             raise ValueError(f"the clock plan was made for the spec {clock.spec.name!r} "
@@ -274,7 +274,7 @@ def find_mode(name: str) -> Mode:
     """The library's standard timing (VESA DMT or CTA-861) that ``name`` names.
 
     ``name`` is a mode (``"1280x720@60"``, ``"1920x1080@59.94"``, optionally
-    followed by ``dmt``, ``cta``, ``rb`` or ``std``) or a source (``"DMT 0x55"``,
+    followed by ``dmt``, ``cta``, ``rb`` or ``std``) or a source (``"DMT 55h"``,
     ``"CTA VIC 4"``).  Raises ``ValueError`` when it names no entry, or several
     entries whose timings differ.
     """

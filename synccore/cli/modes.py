@@ -42,7 +42,8 @@ def modes_command(filter_words: tuple[str, ...], max_clock: str | None,
     """List the built-in standard timings (VESA DMT, CTA-861).
 
     FILTER words must all appear in the mode's name, source or note, e.g.
-    `synccore modes 1920x1080`, `synccore modes cta @60`, `synccore modes rb`.
+    `synccore modes 1920x1080`, `synccore modes cta @60`, `synccore modes rb`;
+    a DMT ID may be written 55h or 0x55.
     """
     limit: Fraction | None = None
     if max_clock is not None:
@@ -155,7 +156,7 @@ def new_command(mode: str | None, out: str, method: str | None, video_optimized:
                 modeline_text: str | None, name: str | None, force: bool) -> None:  # fmt: skip
     """Write a complete, editable timing description for MODE.
 
-    MODE is a library name or source (`1280x720@60`, `DMT 0x55`, `CTA VIC 16`,
+    MODE is a library name or source (`1280x720@60`, `DMT 55h` or `0x55`, `CTA VIC 16`,
     `1280x768@60 rb`; see `synccore modes`), or WIDTHxHEIGHT@RATE with --method.
     """
     notes: tuple[str, ...]

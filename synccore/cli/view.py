@@ -77,7 +77,7 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
             sys.exit(2)
         problems = pattern_problems(s)
         if problems:
-            click.echo(f"{spec}: {problems[0]}", err=True)
+            click.echo(str(SpecError(problems)), err=True)  # every problem, one line each
             sys.exit(2)
         name = s.name
         title = f"{s.name} ({pattern}) on {engine}"

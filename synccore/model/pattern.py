@@ -5,7 +5,7 @@ picture (``width`` x ``height``: the active area divided by ``core.scale``,
 so with scale 2 each picture pixel covers 2 x 2 pixels of the signal) and of
 the colour depth; it gives the
 level of each channel, 0 .. 2**bits - 1.  The emitted pattern generator
-(``emit/pattern.py``) computes the same function in hardware; the simulated
+(``emit/first_light/pattern.py``) computes the same function in hardware; the simulated
 display turns the colour pins back into an image.  Definitions:
 
 ``bars``
@@ -28,6 +28,7 @@ display turns the colour pins back into an image.  Definitions:
 
 from __future__ import annotations
 
+from synccore.errors import Problem
 from synccore.model import bits_for
 from synccore.spec import Color, Spec
 
@@ -40,17 +41,25 @@ PIPELINE_STAGES = 1
 """Clock cycles between x/y entering the pattern generator and its colour output."""
 
 
-def pattern_problems(spec: Spec) -> list[str]:
-    """Why the pattern design cannot be built for ``spec`` (empty when it can)."""
+def pattern_problems(spec: Spec) -> list[Problem]:
+    """Every reason the pattern design cannot be built for ``spec`` (empty when it can).
+
+    Each problem names the field it is about and, when the spec was read from a file,
+    where that file writes it, so a caller can raise them together as a ``SpecError``.
+    """
     out = []
-    if spec.core.pixels_per_clock != 1:
-        out.append("the test-pattern design needs core.pixels_per_clock = 1, "
-                   f"got {spec.core.pixels_per_clock}")  # fmt: skip
+    n = spec.core.pixels_per_clock
+    if n != 1:
+        out.append(Problem(spec.location("core.pixels_per_clock"), "core.pixels_per_clock",
+                           f"must be 1 for the test-pattern design, got {n}"))  # fmt: skip
     scale = spec.core.scale
+    need = MIN_ACTIVE * scale
+    with_scale = f" with core.scale = {scale}" if scale > 1 else ""
     for label, active in (("horizontal", spec.horizontal.active), ("vertical", spec.vertical.active)):
-        if active < MIN_ACTIVE * scale:
-            need = f"{MIN_ACTIVE * scale} (core.scale = {scale})" if scale > 1 else str(MIN_ACTIVE)
-            out.append(f"the test-pattern design needs {label}.active ≥ {need}, got {active}")
+        if active < need:
+            path = f"{label}.active"
+            out.append(Problem(spec.location(path), path, f"must be ≥ {need} for the "
+                               f"test-pattern design{with_scale}, got {active}"))  # fmt: skip
     return out
 
 

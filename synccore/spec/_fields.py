@@ -115,7 +115,7 @@ COLOR_FIELDS = (
 SPEC_FIELDS = (
     Field("name", "identifier", "module / entity name, legal in Verilog and VHDL"),
     Field("standard", "text", 'a library timing instead of the explicit keys: "1280x720@60", '
-          '"DMT 0x55", "CTA VIC 4" (see synccore modes)', required=False),
+          '"DMT 55h", "CTA VIC 4" (see synccore modes)', required=False),
     Field("formula", "section", "a formula timing instead of the explicit keys",
           required=False, fields=FORMULA_FIELDS),
     Field("fit", "section", "target for datasheet ranges given as {min, typ, max}",

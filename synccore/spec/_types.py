@@ -1,13 +1,17 @@
 """The types of a validated timing description, and the allowed values of the format.
 
-This module imports nothing from synccore: every later stage may use it.
+This module imports nothing from synccore but :class:`~synccore.errors.Location`
+(the earliest stage): every later stage may use it.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from collections.abc import Mapping
+from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Any
+
+from synccore.errors import Location
 
 MAX_AXIS = 65535
 """Largest total (pixels per line, lines per frame) accepted; beyond it no display exists."""
@@ -98,6 +102,23 @@ class Spec:
     """What the resolution step adjusted or wants the user to know, one sentence each."""
     board: Board = Board()
     color: Color = Color()
+    locations: Mapping[str, Location] = field(default_factory=dict, compare=False, repr=False)
+    """Where the source file writes each field, by dotted path (``"horizontal.active"``; ``""``
+    is the whole document), filled by the validator so that later checks can point into the
+    file.  Empty for a spec built in code; not part of equality, nor of :func:`to_dict`."""
+
+    def location(self, path: str) -> Location | None:
+        """Where the field at dotted ``path`` is written, else its nearest enclosing section.
+
+        None when the spec has no locations (built in code or by :func:`from_dict`).
+        """
+        parts = path.split(".") if path else []
+        while parts:
+            found = self.locations.get(".".join(parts))
+            if found is not None:
+                return found
+            parts.pop()
+        return self.locations.get("")
 
 
 def to_dict(spec: Spec) -> dict[str, Any]:

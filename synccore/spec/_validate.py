@@ -10,10 +10,10 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from synccore.errors import Problem, SpecError
+from synccore.errors import Location, Problem, SpecError
 from synccore.spec import _yaml as loader
 from synccore.spec._check import Collector, check_section, describe_node, field_names, where
-from synccore.spec._fields import SPEC_FIELDS
+from synccore.spec._fields import SPEC_FIELDS, Field
 from synccore.spec._names import identifier_problem
 from synccore.spec._types import BASE_PORTS, MAX_AXIS, Axis, Board, Color, CoreOptions, Spec
 
@@ -65,7 +65,31 @@ def validate(
         notes=notes,
         board=Board(**values["board"]) if values["board"] else Board(),
         color=Color(**values["color"]) if values["color"] else Color(),
+        locations=_field_locations(top),
     )
+
+
+def _field_locations(doc: loader.Located) -> dict[str, Location]:
+    """Where ``doc`` writes each field of the format, by dotted path (``""``: the document).
+
+    Only fields the document gives are listed; a field it leaves to its default is found
+    through its section (:meth:`Spec.location`).
+    """
+    out = {"": doc.location}
+    _record(SPEC_FIELDS, doc, "", out)
+    return out
+
+
+def _record(fields: tuple[Field, ...], node: loader.Located, path: str,
+            out: dict[str, Location]) -> None:  # fmt: skip
+    for f in fields:
+        child = node.value.get(f.name)
+        if child is None:
+            continue
+        here = f"{path}.{f.name}" if path else f.name
+        out[here] = child.location
+        if f.kind == "section" and isinstance(child, loader.Located) and isinstance(child.value, dict):
+            _record(f.fields, child, here, out)
 
 
 def _check_cross(

@@ -1,21 +1,24 @@
 """The built-in library of standard display timings (VESA DMT and CTA-861).
 
-The table lives in ``synccore/data/modes.yaml`` as data, not code.  Each entry
-carries the spec format's own keys (``pixel_clock_hz``, ``horizontal``,
-``vertical``) plus where it comes from (a DMT ID or a CTA VIC).  CTA formats at
+The table lives in ``synccore/timings/data/modes.yaml`` as data, not code.  Each
+entry carries the spec format's own keys (``pixel_clock_hz``, ``horizontal``,
+``vertical``) plus where it comes from (a DMT ID or a CTA VIC).  A DMT ID is
+written as the DMT document writes it, two hex digits and ``h``: ``DMT 04h``,
+``DMT 1Ah``.  CTA formats at
 24, 30 and 60 Hz also exist at 1000/1001 of their clock; those variants are
 derived here when the table is loaded, so the file lists each format once.
 
 Lookup grammar (``standard:`` in a spec, ``synccore new NAME``):
 
-* a source: ``"DMT 0x55"``, ``"CTA VIC 4"`` (``"VIC 4"`` too);
+* a source: ``"DMT 55h"`` or ``"DMT 0x55"`` (any case), ``"CTA VIC 4"`` (``"VIC 4"`` too);
 * a name: ``"1280x720@60"``, ``"1920x1080@59.94"``, optionally followed by words
   that narrow it down: ``dmt``, ``cta`` or ``rb`` (reduced blanking), e.g.
   ``"1280x768@60 rb"``.
 
 A name that matches entries with different timings is ambiguous and refused,
-naming the candidates; entries with identical timings (DMT 0x55 and CTA VIC 4)
-count as one.
+naming the candidates; entries with identical timings (DMT 55h and CTA VIC 4)
+count as one.  :func:`search` (the ``synccore modes`` filter) takes a DMT ID in
+either form too.
 """
 
 from __future__ import annotations
@@ -42,7 +45,7 @@ _FRACTIONAL_LABEL = {"24": "23.976", "30": "29.97", "60": "59.94"}
 class Mode:
     """One standard timing."""
 
-    source: str  # "DMT 0x55" or "CTA VIC 4", with " (1000/1001)" for derived variants
+    source: str  # "DMT 55h" or "CTA VIC 4", with " (1000/1001)" for derived variants
     refresh_label: str  # nominal refresh as the standard names it: "60", "59.94"
     pixel_clock_hz: Fraction
     horizontal: Axis
@@ -160,7 +163,13 @@ _SOURCE = re.compile(r"\s*(?:(dmt)\s*(?:id\s*)?(0x[0-9a-f]+|[0-9a-f]+h?)|(?:cta\
                      re.IGNORECASE)  # fmt: skip
 _NAME = re.compile(r"\s*([0-9]+)\s*x\s*([0-9]+)\s*@\s*([0-9]+(?:\.[0-9]+)?)\s*(?:hz)?"
                    r"((?:\s+\w+)*)\s*\Z", re.IGNORECASE)  # fmt: skip
+_DMT_ID_WORD = re.compile(r"0x([0-9a-f]{1,2})|([0-9][0-9a-f]?)h", re.IGNORECASE)
 QUALIFIERS = ("dmt", "cta", "rb", "std")
+
+
+def dmt_source(number: int) -> str:
+    """A DMT ID as the DMT document writes it: ``DMT 04h``, ``DMT 1Ah`` (from memory)."""
+    return f"DMT {number:02X}h"
 
 
 def _canonical_source(text: str) -> str | None:
@@ -170,7 +179,7 @@ def _canonical_source(text: str) -> str | None:
     suffix = " (1000/1001)" if m.group(4) else ""
     if m.group(1):
         digits = m.group(2).lower().removeprefix("0x").removesuffix("h")
-        return f"DMT 0x{int(digits, 16):02X}{suffix}"
+        return f"{dmt_source(int(digits, 16))}{suffix}"
     return f"CTA VIC {int(m.group(3))}{suffix}"
 
 
@@ -186,7 +195,7 @@ def find(query: str) -> Mode:
     if not m:
         raise ModeLookupError(
             "must name a mode like '1280x720@60' (optionally followed by dmt, cta, rb or std) "
-            "or a source like 'DMT 0x55' or 'CTA VIC 4'"
+            "or a source like 'DMT 55h' or 'CTA VIC 4'"
         )
     width, height, rate = int(m.group(1)), int(m.group(2)), m.group(3)
     words = [w.lower() for w in m.group(4).split()]
@@ -226,9 +235,18 @@ def find(query: str) -> Mode:
     return found[0]
 
 
+def _search_word(word: str) -> str:
+    """A filter word, lower case; a DMT ID (``0x4``, ``04h``) in the library's own form."""
+    m = _DMT_ID_WORD.fullmatch(word)
+    return f"{int(m.group(1) or m.group(2), 16):02x}h" if m else word.lower()
+
+
 def search(text: str = "", *, max_clock_hz: Fraction | None = None) -> list[Mode]:
-    """Modes whose name, source or note contain every word of ``text`` (case-insensitive)."""
-    words = text.lower().split()
+    """Modes whose name, source or note contain every word of ``text`` (case-insensitive).
+
+    A word that is a DMT ID, ``0x04`` or ``04h``, matches that ID's entry.
+    """
+    words = [_search_word(w) for w in text.split()]
     out = []
     for mode in library():
         hay = " ".join((mode.name, mode.source, " ".join(mode.also), mode.note)).lower()

@@ -118,7 +118,7 @@ def _standard(node: Node, result: Resolved, out: Collector) -> None:
     where = node.location
     if not isinstance(node, Scalar) or not isinstance(node.value, str):
         out.add(where, "standard",
-                f"must be a mode name like '1280x720@60' or a source like 'DMT 0x55', "
+                f"must be a mode name like '1280x720@60' or a source like 'DMT 55h', "
                 f"got {describe_node(node)}")  # fmt: skip
         return
     try:

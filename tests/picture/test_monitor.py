@@ -149,7 +149,7 @@ def test_view_cli_builtin(tmp_path: Path) -> None:
     result = CliRunner().invoke(main, ["view", str(spec), "--sim", "model", "--pattern", "edges",
                                        "-o", str(out)])  # fmt: skip
     assert result.exit_code == 0, result.output
-    assert "640x480@60 (DMT 0x04" in result.output
+    assert "640x480@60 (DMT 04h" in result.output
     assert np.array_equal(np.asarray(Image.open(out).convert("RGB")),
                           np.asarray(expected_image("edges", 640, 480)))  # fmt: skip
     result = CliRunner().invoke(main, ["view", str(spec), "--sim", "model",

@@ -12,8 +12,9 @@ import synccore
 from synccore.cli.main import main
 from synccore.emit.files import core_artifacts, pattern_artifacts
 from synccore.emit.first_light.pattern import pattern_context
+from synccore.errors import Location, Problem
 from synccore.model.pattern import PATTERNS, bar_bounds, levels, pattern_problems
-from synccore.spec import Color
+from synccore.spec import Color, from_dict, to_dict
 from synccore.verification.tools import Tool
 from tests import golden_files
 from tests import samples as timings
@@ -102,15 +103,52 @@ def test_bar_bounds_and_levels() -> None:
         levels("stripes", 0, 0, 8, 8, c)
 
 
-def test_refusals() -> None:
+# The refused specs are written by tests/samples.spec_text: line 3 is
+# "horizontal: {active: N, ..." (the value at column 22), line 4 "vertical: {active: N, ..."
+# (column 20), and a core section puts its first key on line 6, "  pixels_per_clock: N"
+# (column 21).
+TINY_REFUSED = [
+    "tiny.yaml:3:22: horizontal.active: must be ≥ 32 for the test-pattern design, got 1",
+    "tiny.yaml:4:20: vertical.active: must be ≥ 32 for the test-pattern design, got 1",
+]
+
+
+def test_refusals_name_the_field_and_where_it_is_written() -> None:
     spec = synccore.loads(timings.spec_text("p2", "10 MHz", (64, 2, 2, 2, "positive"),
                                             (40, 1, 1, 1, "negative"),
-                                            core={"pixels_per_clock": 2}))  # fmt: skip
-    assert pattern_problems(spec) == [
-        "the test-pattern design needs core.pixels_per_clock = 1, got 2"]
-    tiny = synccore.loads(timings.TINY)
-    assert any(p.startswith("the test-pattern design needs horizontal.active ≥ 32")
-               for p in pattern_problems(tiny))  # fmt: skip
+                                            core={"pixels_per_clock": 2}), "p2.yaml")  # fmt: skip
+    assert pattern_problems(spec) == [Problem(Location("p2.yaml", 6, 21), "core.pixels_per_clock",
+                                              "must be 1 for the test-pattern design, got 2")]
+    tiny = synccore.loads(timings.TINY, "tiny.yaml")
+    assert [str(p) for p in pattern_problems(tiny)] == TINY_REFUSED
+    scaled = synccore.loads(timings.SCALED, "scaled.yaml")  # 24 x 8 active, core.scale = 2
+    assert [str(p) for p in pattern_problems(scaled)] == [
+        "scaled.yaml:3:22: horizontal.active: must be ≥ 64 for the test-pattern design with "
+        "core.scale = 2, got 24",
+        "scaled.yaml:4:20: vertical.active: must be ≥ 64 for the test-pattern design with "
+        "core.scale = 2, got 8",
+    ]
+
+
+def test_every_refusal_is_raised_at_once() -> None:
+    spec = synccore.loads(timings.spec_text("p2", "10 MHz", (16, 2, 2, 2, "positive"),
+                                            (8, 1, 1, 1, "negative"),
+                                            core={"pixels_per_clock": 2}), "p2.yaml")  # fmt: skip
+    with pytest.raises(synccore.SpecError) as err:
+        pattern_artifacts(spec, "bars")
+    assert str(err.value).splitlines() == [
+        "p2.yaml:3:22: horizontal.active: must be ≥ 32 for the test-pattern design, got 16",
+        "p2.yaml:4:20: vertical.active: must be ≥ 32 for the test-pattern design, got 8",
+        "p2.yaml:6:21: core.pixels_per_clock: must be 1 for the test-pattern design, got 2",
+    ]
+
+
+def test_refusal_of_a_spec_built_in_code_has_no_location() -> None:
+    tiny = from_dict(to_dict(synccore.loads(timings.TINY, "tiny.yaml")))
+    assert [str(p) for p in pattern_problems(tiny)] == [
+        "horizontal.active: must be ≥ 32 for the test-pattern design, got 1",
+        "vertical.active: must be ≥ 32 for the test-pattern design, got 1",
+    ]
 
 
 def test_color_validation(write_spec) -> None:  # type: ignore[no-untyped-def]
@@ -133,8 +171,17 @@ def test_build_pattern_cli(tmp_path: Path, write_spec) -> None:  # type: ignore[
     tiny = write_spec(timings.TINY, "tiny.yaml")
     result = CliRunner().invoke(main, ["build", str(tiny), "-o", str(tmp_path / "t"), "--pattern", "bars"])
     assert result.exit_code == 2
-    assert "needs horizontal.active ≥ 32" in result.output
+    assert result.stderr.splitlines() == [f"{tiny.parent}/{line}" for line in TINY_REFUSED]
     assert not (tmp_path / "t").exists()
+
+
+def test_view_cli_prints_every_refusal(tmp_path: Path, write_spec) -> None:  # type: ignore[no-untyped-def]
+    tiny = write_spec(timings.TINY, "tiny.yaml")
+    result = CliRunner().invoke(main, ["view", str(tiny), "--sim", "model",
+                                       "-o", str(tmp_path / "v.png")])  # fmt: skip
+    assert result.exit_code == 2
+    assert result.stderr.splitlines() == [f"{tiny.parent}/{line}" for line in TINY_REFUSED]
+    assert not (tmp_path / "v.png").exists()
 
 
 _PICTURE_EXAMPLES = [p for p in EXAMPLES if not pattern_problems(synccore.load(p))]

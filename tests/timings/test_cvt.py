@@ -2,7 +2,7 @@
 
 Two kinds of check values: DMT entries that the VESA DMT document itself marks
 as derived from CVT (standard blanking, reduced blanking, reduced blanking v2),
-taken from the library table (transcribed from the published DMT, see
+taken from the library table (whose values were taken from the published DMT, see
 tests/timings/test_modes.py for their provenance), and results recalled from the
 standards, marked "from memory".
 """
@@ -26,16 +26,16 @@ from synccore.timings import formulas, modes
 P, N = "positive", "negative"
 
 # VESA DMT v1.0 rev 13: entries generated with CVT standard blanking.
-CVT_DMT = [("DMT 0x17", 1280, 768, 60), ("DMT 0x1C", 1280, 800, 60), ("DMT 0x1D", 1280, 800, 75),
-           ("DMT 0x1E", 1280, 800, 85), ("DMT 0x2A", 1400, 1050, 60), ("DMT 0x2F", 1440, 900, 60),
-           ("DMT 0x30", 1440, 900, 75), ("DMT 0x3A", 1680, 1050, 60), ("DMT 0x45", 1920, 1200, 60),
-           ("DMT 0x46", 1920, 1200, 75), ("DMT 0x4D", 2560, 1600, 60)]  # fmt: skip
+CVT_DMT = [("DMT 17h", 1280, 768, 60), ("DMT 1Ch", 1280, 800, 60), ("DMT 1Dh", 1280, 800, 75),
+           ("DMT 1Eh", 1280, 800, 85), ("DMT 2Ah", 1400, 1050, 60), ("DMT 2Fh", 1440, 900, 60),
+           ("DMT 30h", 1440, 900, 75), ("DMT 3Ah", 1680, 1050, 60), ("DMT 45h", 1920, 1200, 60),
+           ("DMT 46h", 1920, 1200, 75), ("DMT 4Dh", 2560, 1600, 60)]  # fmt: skip
 # VESA DMT v1.0 rev 13: entries generated with CVT reduced blanking (v1).
-CVT_RB_DMT = [("DMT 0x0D", 800, 600, 120), ("DMT 0x14", 1024, 768, 120),
-              ("DMT 0x16", 1280, 768, 60), ("DMT 0x1B", 1280, 800, 60),
-              ("DMT 0x29", 1400, 1050, 60), ("DMT 0x2E", 1440, 900, 60),
-              ("DMT 0x39", 1680, 1050, 60), ("DMT 0x44", 1920, 1200, 60),
-              ("DMT 0x4C", 2560, 1600, 60), ("DMT 0x50", 2560, 1600, 120)]  # fmt: skip
+CVT_RB_DMT = [("DMT 0Dh", 800, 600, 120), ("DMT 14h", 1024, 768, 120),
+              ("DMT 16h", 1280, 768, 60), ("DMT 1Bh", 1280, 800, 60),
+              ("DMT 29h", 1400, 1050, 60), ("DMT 2Eh", 1440, 900, 60),
+              ("DMT 39h", 1680, 1050, 60), ("DMT 44h", 1920, 1200, 60),
+              ("DMT 4Ch", 2560, 1600, 60), ("DMT 50h", 2560, 1600, 120)]  # fmt: skip
 
 
 @pytest.mark.parametrize("source, w, h, rate", CVT_DMT, ids=[c[0] for c in CVT_DMT])
@@ -55,7 +55,7 @@ def test_cvt_reduced_blanking_matches_dmt(source: str, w: int, h: int, rate: int
 
 
 def test_cvt_rb2_matches_dmt_4096x2160() -> None:
-    # VESA DMT v1.0 rev 13, DMT ID 0x57: 4096x2160@60 CVT-RB2, 556.744 MHz,
+    # VESA DMT v1.0 rev 13, DMT ID 57h: 4096x2160@60 CVT-RB2, 556.744 MHz,
     # H 4096 + 8 + 32 + 40, V 2160 + 48 + 8 + 6, +hsync -vsync.
     r = formulas.cvt(4096, 2160, 60, reduced=2)
     assert r.pixel_clock_hz == 556_744_000
@@ -64,7 +64,7 @@ def test_cvt_rb2_matches_dmt_4096x2160() -> None:
 
 
 def test_cvt_rb2_video_optimized_matches_dmt_59_94() -> None:
-    # VESA DMT v1.0 rev 13, DMT ID 0x58: the same at 59.94 Hz, 556.188 MHz.
+    # VESA DMT v1.0 rev 13, DMT ID 58h: the same at 59.94 Hz, 556.188 MHz.
     r = formulas.cvt(4096, 2160, 60, reduced=2, video_optimized=True)
     assert r.pixel_clock_hz == 556_188_000
     assert r.horizontal == Axis(4096, 8, 32, 40, P)

@@ -29,7 +29,7 @@ def test_parse_full_line() -> None:
 
 
 def test_parse_bare_line_negative_polarities() -> None:
-    # VESA DMT 0x04 (640x480@60) as a modeline, -hsync -vsync.
+    # VESA DMT ID 04h (640x480@60) as a modeline, -hsync -vsync.
     m = modeline.parse("25.175 640 656 752 800 480 490 492 525 -hsync -vsync")
     assert m.name == "" and m.pixel_clock_hz == 25_175_000
     assert m.horizontal == Axis(640, 16, 96, 48, N)

@@ -24,26 +24,26 @@ P, N = "positive", "negative"
 # in the Linux kernel's drivers/gpu/drm/drm_edid.c tables (start/end/total
 # positions there; the porches below were worked out from them by hand).
 PUBLISHED = [
-    # VESA DMT v1.0 rev 13, DMT ID 0x04: 640x480@60
-    ("DMT 0x04", 25_175_000, (640, 16, 96, 48, N), (480, 10, 2, 33, N)),
-    # VESA DMT v1.0 rev 13, DMT ID 0x09: 800x600@60
-    ("DMT 0x09", 40_000_000, (800, 40, 128, 88, P), (600, 1, 4, 23, P)),
-    # VESA DMT v1.0 rev 13, DMT ID 0x10: 1024x768@60
-    ("DMT 0x10", 65_000_000, (1024, 24, 136, 160, N), (768, 3, 6, 29, N)),
-    # VESA DMT v1.0 rev 13, DMT ID 0x23: 1280x1024@60
-    ("DMT 0x23", 108_000_000, (1280, 48, 112, 248, P), (1024, 1, 3, 38, P)),
-    # VESA DMT v1.0 rev 13, DMT ID 0x55: 1280x720@60
-    ("DMT 0x55", 74_250_000, (1280, 110, 40, 220, P), (720, 5, 5, 20, P)),
-    # VESA DMT v1.0 rev 13, DMT ID 0x3A: 1680x1050@60 (CVT)
-    ("DMT 0x3A", 146_250_000, (1680, 104, 176, 280, N), (1050, 3, 6, 30, P)),
-    # VESA DMT v1.0 rev 13, DMT ID 0x44: 1920x1200@60 reduced blanking (CVT-RB)
-    ("DMT 0x44", 154_000_000, (1920, 48, 32, 80, P), (1200, 3, 6, 26, N)),
-    # VESA DMT v1.0 rev 13, DMT ID 0x45: 1920x1200@60 (CVT)
-    ("DMT 0x45", 193_250_000, (1920, 136, 200, 336, N), (1200, 3, 6, 36, P)),
-    # VESA DMT v1.0 rev 13, DMT ID 0x4C: 2560x1600@60 reduced blanking (CVT-RB)
-    ("DMT 0x4C", 268_500_000, (2560, 48, 32, 80, P), (1600, 3, 6, 37, N)),
-    # VESA DMT v1.0 rev 13, DMT ID 0x57: 4096x2160@60 reduced blanking v2 (CVT-RB2)
-    ("DMT 0x57", 556_744_000, (4096, 8, 32, 40, P), (2160, 48, 8, 6, N)),
+    # VESA DMT v1.0 rev 13, DMT ID 04h: 640x480@60
+    ("DMT 04h", 25_175_000, (640, 16, 96, 48, N), (480, 10, 2, 33, N)),
+    # VESA DMT v1.0 rev 13, DMT ID 09h: 800x600@60
+    ("DMT 09h", 40_000_000, (800, 40, 128, 88, P), (600, 1, 4, 23, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 10h: 1024x768@60
+    ("DMT 10h", 65_000_000, (1024, 24, 136, 160, N), (768, 3, 6, 29, N)),
+    # VESA DMT v1.0 rev 13, DMT ID 23h: 1280x1024@60
+    ("DMT 23h", 108_000_000, (1280, 48, 112, 248, P), (1024, 1, 3, 38, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 55h: 1280x720@60
+    ("DMT 55h", 74_250_000, (1280, 110, 40, 220, P), (720, 5, 5, 20, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 3Ah: 1680x1050@60 (CVT)
+    ("DMT 3Ah", 146_250_000, (1680, 104, 176, 280, N), (1050, 3, 6, 30, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 44h: 1920x1200@60 reduced blanking (CVT-RB)
+    ("DMT 44h", 154_000_000, (1920, 48, 32, 80, P), (1200, 3, 6, 26, N)),
+    # VESA DMT v1.0 rev 13, DMT ID 45h: 1920x1200@60 (CVT)
+    ("DMT 45h", 193_250_000, (1920, 136, 200, 336, N), (1200, 3, 6, 36, P)),
+    # VESA DMT v1.0 rev 13, DMT ID 4Ch: 2560x1600@60 reduced blanking (CVT-RB)
+    ("DMT 4Ch", 268_500_000, (2560, 48, 32, 80, P), (1600, 3, 6, 37, N)),
+    # VESA DMT v1.0 rev 13, DMT ID 57h: 4096x2160@60 reduced blanking v2 (CVT-RB2)
+    ("DMT 57h", 556_744_000, (4096, 8, 32, 40, P), (2160, 48, 8, 6, N)),
     # CTA-861, VIC 4: 1280x720p@60
     ("CTA VIC 4", 74_250_000, (1280, 110, 40, 220, P), (720, 5, 5, 20, P)),
     # CTA-861, VIC 16: 1920x1080p@60
@@ -78,11 +78,11 @@ def test_entry_matches_published_table(source: str, clock: int, h: tuple, v: tup
 # 25.175 MHz / (800 x 525), 1Ch 83.5 MHz / (1680 x 831).  The DMT document's own
 # "Ver Frequency" column was not seen.
 @pytest.mark.parametrize("source, hz", [
-    ("DMT 0x04", "59.940"),
-    ("DMT 0x05", "72.809"),
-    ("DMT 0x08", "56.250"),
-    ("DMT 0x09", "60.317"),
-    ("DMT 0x1C", "59.810"),
+    ("DMT 04h", "59.940"),
+    ("DMT 05h", "72.809"),
+    ("DMT 08h", "56.250"),
+    ("DMT 09h", "60.317"),
+    ("DMT 1Ch", "59.810"),
 ])  # fmt: skip
 def test_dmt_vertical_frequency(source: str, hz: str) -> None:
     m = modes.find(source)
@@ -119,7 +119,7 @@ def test_library_covers_the_range_asked_for() -> None:
 
 
 def test_identical_duplicates_are_one_choice() -> None:
-    # DMT 0x55 and CTA VIC 4 are the same timing: no ambiguity.
+    # DMT 55h and CTA VIC 4 are the same timing: no ambiguity.
     assert modes.find("1280x720@60").horizontal == modes.find("CTA VIC 4").horizontal
 
 
@@ -129,10 +129,11 @@ def test_alias_vic_is_found() -> None:
 
 def test_ambiguous_name_is_refused_with_candidates() -> None:
     with pytest.raises(modes.ModeLookupError, match=re.escape(
-            "is ambiguous: it matches DMT 0x16 (reduced blanking (CVT-RB)), DMT 0x17; ")):
+            "is ambiguous: it matches DMT 16h (reduced blanking (CVT-RB)), DMT 17h; name "
+            "the source instead (e.g. 'DMT 16h') or add dmt, cta, rb or std")):
         modes.find("1280x768@60")
-    assert modes.find("1280x768@60 rb").source == "DMT 0x16"
-    assert modes.find("1280x768@60 std").source == "DMT 0x17"
+    assert modes.find("1280x768@60 rb").source == "DMT 16h"
+    assert modes.find("1280x768@60 std").source == "DMT 17h"
 
 
 def test_unknown_name_suggests_sizes() -> None:
@@ -203,7 +204,50 @@ def test_new_output_passes_show(tmp_path) -> None:
 
 
 def test_new_to_stdout() -> None:
-    r = CliRunner().invoke(main, ["new", "DMT 0x04", "-o", "-"])
+    r = CliRunner().invoke(main, ["new", "DMT 04h", "-o", "-"])
     assert r.exit_code == 0
-    assert r.output.startswith("# Timing description written by `synccore new` from DMT 0x04")
+    assert r.output.startswith("# Timing description written by `synccore new` from DMT 04h "
+                               "(640x480@60).\n")
     assert loads(r.output).pixel_clock_hz == 25_175_000
+    # Either spelling of the ID, in any case, writes the same spec.
+    for spelling in ("DMT 0x04", "dmt 04H", "DMT 0X4"):
+        assert CliRunner().invoke(main, ["new", spelling, "-o", "-"]).output == r.output
+
+
+# The VESA DMT document names each timing "DMT ID: 04h": two hex digits followed by h,
+# with upper-case hex digits, e.g. 1Ah (from memory).
+DMT_ID_FORM = re.compile(r"DMT [0-9A-F]{2}h")
+
+
+def test_dmt_ids_are_written_as_the_standard_writes_them() -> None:
+    dmt = [m for m in modes.library() if m.family == "DMT"]
+    assert dmt and all(DMT_ID_FORM.fullmatch(m.source) for m in dmt)
+    assert modes.find("1280x768@120").source == "DMT 1Ah"
+    assert modes.dmt_source(0x04) == "DMT 04h" and modes.dmt_source(0x1A) == "DMT 1Ah"
+
+
+@pytest.mark.parametrize("spelling", ["DMT 1Ah", "DMT 1ah", "dmt 1AH", "DMT 0x1A", "DMT 0x1a",
+                                      "dmt 0X1A", "DMT ID 1Ah", " DMT 0x1A "])  # fmt: skip
+def test_dmt_id_is_found_in_either_form(spelling: str) -> None:
+    assert modes.find(spelling).source == "DMT 1Ah"
+    s = loads(f"name: a\nstandard: {spelling!r}\n")
+    assert s.origin == "DMT 1Ah (1280x768@120)"
+
+
+def test_unknown_dmt_id_is_named_in_the_standard_form() -> None:
+    with pytest.raises(modes.ModeLookupError, match=r"^no library entry has the source 'DMT FEh'$"):
+        modes.find("DMT 0xfe")
+
+
+@pytest.mark.parametrize("words", ["DMT 04h", "dmt 0x04", "0X04", "04H", "4h", "0x4"])
+def test_search_takes_a_dmt_id_in_either_form(words: str) -> None:
+    assert [m.source for m in modes.search(words)] == ["DMT 04h"]
+
+
+def test_cli_modes_filter_by_dmt_id() -> None:
+    for words in (["DMT", "0x1a"], ["dmt", "1AH"]):
+        r = CliRunner().invoke(main, ["modes", *words, "--json"])
+        assert r.exit_code == 0, r.output
+        assert [e["source"] for e in json.loads(r.output)] == ["DMT 1Ah"]
+    r = CliRunner().invoke(main, ["modes", "0x55"])
+    assert r.exit_code == 0 and "1280x720@60" in r.output and "DMT 55h" in r.output

@@ -21,9 +21,11 @@ def r(lo: int, hi: int, typ: int | None = None) -> Range:
     return Range(Fraction(lo), Fraction(hi), None if typ is None else Fraction(typ))
 
 
-# An invented 800x480 panel datasheet (demo data, not a real part).
-H = AxisRanges(800, r(16, 354, 210), r(1, 40, 20), R.fixed(46), "negative")
-V = AxisRanges(480, r(7, 147, 22), r(1, 20, 10), R.fixed(23), "negative")
+# A made-up 800x480 panel datasheet (figures of our own, not a real part's; the same
+# panel as examples/panel_ranges.yaml).  Typical totals 800 + 96 + 24 + 80 = 1000 and
+# 480 + 20 + 5 + 30 = 535; the ranges allow totals 912 .. 1168 and 518 .. 640.
+H = AxisRanges(800, r(24, 240, 96), r(8, 48, 24), R.fixed(80), "negative")
+V = AxisRanges(480, r(6, 120, 20), r(2, 10, 5), R.fixed(30), "negative")
 
 
 def inside(a: AxisRanges, chosen) -> bool:
@@ -31,28 +33,32 @@ def inside(a: AxisRanges, chosen) -> bool:
 
 
 def test_fixed_board_clock_hits_the_target_exactly() -> None:
+    # 33 MHz / 60 Hz = 550000 = 1000 x 550 pixels per frame, both totals inside the ranges.
     res = fit(H, V, Range.fixed(33_000_000), refresh=Fraction(60))
     assert res.met and res.refresh_hz == 60 and res.bounds == ()
     assert inside(H, res.horizontal) and inside(V, res.vertical)
 
 
 def test_clock_range_keeps_typical_values() -> None:
-    res = fit(H, V, r(26_400_000, 46_800_000, 33_300_000), refresh=Fraction(60))
+    # 60 Hz x 1000 x 535 = 32.1 MHz lies inside 25 .. 38 MHz: the typical values stay.
+    res = fit(H, V, r(25_000_000, 38_000_000, 32_000_000), refresh=Fraction(60))
     assert res.met and res.refresh_hz == 60
-    assert (res.horizontal.front_porch, res.vertical.front_porch) == (210, 22)
+    assert (res.horizontal.front_porch, res.vertical.front_porch) == (96, 20)
 
 
 def test_unreachable_target_is_reported_with_the_binding_ranges() -> None:
+    # The smallest frame, 912 x 518 = 472416 pixels, gives 25 MHz / 472416 = 52.92 Hz.
     res = fit(H, V, Range.fixed(25_000_000), refresh=Fraction(75))
     assert not res.met
     assert res.error < 0  # the smallest frame is still too slow
-    assert "horizontal.front_porch at its min 16" in res.bounds
-    assert "vertical.front_porch at its min 7" in res.bounds
+    assert "horizontal.front_porch at its min 24" in res.bounds
+    assert "vertical.front_porch at its min 6" in res.bounds
     assert inside(H, res.horizontal) and inside(V, res.vertical)
 
 
 def test_clock_range_bound_is_named() -> None:
-    res = fit(H, V, r(26_400_000, 30_000_000, 28_000_000), refresh=Fraction(60))
+    # The typical values want 32.1 MHz, above the range's 30 MHz.
+    res = fit(H, V, r(25_000_000, 30_000_000, 28_000_000), refresh=Fraction(60))
     assert res.bounds[0] == "pixel_clock_hz at its max 30000000 Hz"
     assert res.pixel_clock_hz == 30_000_000
 
@@ -99,18 +105,18 @@ def test_property_never_leaves_a_range_and_is_honest(h, v, clock, refresh) -> No
 
 PANEL = """\
 name: panel
-pixel_clock_hz: {{min: 26.4 MHz, typ: 33.3 MHz, max: 46.8 MHz}}
+pixel_clock_hz: {{min: 25 MHz, typ: 32 MHz, max: 38 MHz}}
 horizontal:
   active: 800
-  front_porch: {{min: 16, typ: 210, max: 354}}
-  sync: {{min: 1, typ: 20, max: 40}}
-  back_porch: 46
+  front_porch: {{min: 24, typ: 96, max: 240}}
+  sync: {{min: 8, typ: 24, max: 48}}
+  back_porch: 80
   sync_polarity: negative
 vertical:
   active: 480
-  front_porch: {{min: 7, typ: 22, max: 147}}
-  sync: {{min: 1, typ: 10, max: 20}}
-  back_porch: 23
+  front_porch: {{min: 6, typ: 20, max: 120}}
+  sync: {{min: 2, typ: 5, max: 10}}
+  back_porch: 30
   sync_polarity: negative
 fit:
 {fit}
@@ -123,28 +129,34 @@ def test_spec_with_ranges_and_board_clock() -> None:
     assert s.pixel_clock_hz / (s.horizontal.total * s.vertical.total) == 60
     assert s.origin == "fitted to datasheet ranges"
     assert s.notes == ("target 60.000 Hz, landed at 60.000 Hz (+0.000 %)",)
-    # At 30 MHz no whole totals give exactly 60 Hz inside the ranges (500000 pixels per
-    # frame would need V below its 511-line minimum or H below 863): the nearest is
-    # reported with the range that bound it.
+    # At 30 MHz no whole totals give exactly 60 Hz inside the ranges: 500000 = 2^5 x 5^6
+    # pixels per frame, and its only divisor inside V's 518 .. 640 is 625, which leaves
+    # H = 800, below its 912.  Trying every pair of totals inside the ranges (brute_best),
+    # the nearest product is 956 x 523 = 499988, 12 pixels short: 30 MHz / 499988 =
+    # 60.00144 Hz, +12/499988 = +0.0024 %.  No range bound stops it, so none is named.
+    assert brute_best(H, V, 30_000_000, Fraction(60)) == Fraction(12, 499988)
     s = loads(PANEL.format(fit="  pixel_clock_hz: 30 MHz\n  refresh: 60"))
-    assert s.notes == ("target 60.000 Hz, landed at 60.000 Hz (-0.001 %); "
-                       "limited by vertical.front_porch at its min 7",)
+    assert (s.horizontal.total, s.vertical.total) == (956, 523)
+    assert s.notes == ("target 60.000 Hz, landed at 60.001 Hz (+0.002 %)",)
 
 
 def test_spec_fit_that_cannot_be_met_is_an_error() -> None:
     with pytest.raises(SpecError) as info:
         loads(PANEL.format(fit="  pixel_clock_hz: 27 MHz\n  refresh: 75"), "p.yaml")
-    (line,) = str(info.value).splitlines()
-    assert re.match(r"^p\.yaml:15:1: fit: no values inside the datasheet ranges reach the "
-                    r"target within 0\.50 %: target 75\.000 Hz, landed at 61\.\d+ Hz "
-                    r"\(-1\d\.\d+ %\); limited by horizontal\.front_porch at its min 16, ", line)
+    # The smallest frame, 912 x 518 = 472416 pixels: 27 MHz / 472416 = 57.1530 Hz,
+    # 57.1530 / 75 - 1 = -23.796 %, with every porch and sync range at its minimum.
+    assert str(info.value) == (
+        "p.yaml:15:1: fit: no values inside the datasheet ranges reach the target within "
+        "0.50 %: target 75.000 Hz, landed at 57.153 Hz (-23.796 %); limited by "
+        "horizontal.front_porch at its min 24, horizontal.sync at its min 8, "
+        "vertical.front_porch at its min 6, vertical.sync at its min 2")
 
 
 def test_spec_board_clock_outside_datasheet_range() -> None:
     with pytest.raises(SpecError) as info:
         loads(PANEL.format(fit="  pixel_clock_hz: 50 MHz"), "p.yaml")
     assert re.match(r"^p\.yaml:16:19: fit\.pixel_clock_hz: lies outside the datasheet range "
-                    r"26\.400 MHz \.\. 46\.800 MHz, got 50\.000 MHz$", str(info.value))
+                    r"25\.000 MHz \.\. 38\.000 MHz, got 50\.000 MHz$", str(info.value))
 
 
 def test_range_without_fit_is_refused() -> None:
@@ -156,17 +168,17 @@ def test_range_without_fit_is_refused() -> None:
 
 
 def test_bad_range_is_located() -> None:
-    text = PANEL.format(fit="  refresh: 60").replace("{min: 16, typ: 210, max: 354}",
-                                                     "{min: 354, max: 16}")
+    text = PANEL.format(fit="  refresh: 60").replace("{min: 24, typ: 96, max: 240}",
+                                                     "{min: 240, max: 24}")
     with pytest.raises(SpecError) as info:
         loads(text, "p.yaml")
     assert re.match(r"^p\.yaml:5:16: horizontal\.front_porch: min must not exceed max, "
-                    r"got min 354 and max 16$", str(info.value))
+                    r"got min 240 and max 24$", str(info.value))
 
 
 def test_spec_fixed_clock_and_refresh_only() -> None:
     text = PANEL.format(fit="  refresh: 60").replace(
-        "pixel_clock_hz: {min: 26.4 MHz, typ: 33.3 MHz, max: 46.8 MHz}", "pixel_clock_hz: 33 MHz")
+        "pixel_clock_hz: {min: 25 MHz, typ: 32 MHz, max: 38 MHz}", "pixel_clock_hz: 33 MHz")
     s = loads(text)
     assert s.pixel_clock_hz == 33_000_000
     assert s.pixel_clock_hz / (s.horizontal.total * s.vertical.total) == 60
@@ -176,13 +188,13 @@ def test_spec_target_defaults_to_typical_refresh() -> None:
     # No refresh given: the target is the refresh of the typical values, which the
     # clock range absorbs exactly at the typical porches.
     s = loads(PANEL.format(fit="  tolerance_percent: 0.1"))
-    assert (s.horizontal.front_porch, s.vertical.front_porch) == (210, 22)
-    assert s.pixel_clock_hz == 33_300_000
+    assert (s.horizontal.front_porch, s.vertical.front_porch) == (96, 20)
+    assert s.pixel_clock_hz == 32_000_000
 
 
 def test_fit_needs_a_target() -> None:
     text = PANEL.format(fit="  {}").replace("fit:\n  {}", "fit: {}").replace(
-        "typ: 33.3 MHz, ", "")
+        "typ: 32 MHz, ", "")
     with pytest.raises(SpecError) as info:
         loads(text, "p.yaml")
     assert str(info.value) == ("p.yaml:15:1: fit.refresh: required key is missing (the clock "

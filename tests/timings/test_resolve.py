@@ -40,7 +40,7 @@ def test_fit_with_standard() -> None:
 def test_standard_must_be_text() -> None:
     lines = problems("name: a\nstandard: [1280, 720]\n")
     assert re.match(r"^s\.yaml:2:11: standard: must be a mode name like '1280x720@60' or a "
-                    r"source like 'DMT 0x55', got a list$", lines[0])
+                    r"source like 'DMT 55h', got a list$", lines[0])
     assert len(lines) == 1
 
 

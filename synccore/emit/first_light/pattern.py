@@ -20,6 +20,7 @@ from synccore.emit import _verilog as vl
 from synccore.emit import _vhdl as vh
 from synccore.emit._jinja import environment
 from synccore.emit.core.context import CoreContext, build_context, header_lines
+from synccore.errors import SpecError
 from synccore.model import Timing, bits_for
 from synccore.model.pattern import (
     GRID_STEP,
@@ -72,7 +73,7 @@ def pattern_context(spec: Spec, pattern: str) -> PatternContext:
         raise ValueError(f"unknown pattern {pattern!r}; choose from {', '.join(PATTERNS)}")
     problems = pattern_problems(spec)
     if problems:
-        raise ValueError(problems[0])
+        raise SpecError(problems)
     t = Timing(spec)
     core = build_context(t)
     p = spec.port_prefix
