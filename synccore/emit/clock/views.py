@@ -3,6 +3,14 @@
 A view turns a :class:`~synccore.emit.clock.wrapper.ClockContext` into the
 lines a template lays out (``clock_pll.v.j2``, ``clock_pll.vhd.j2``,
 ``clock_enable.v.j2``, ``clock_enable.vhd.j2``); templates compute nothing.
+
+A ``bits`` parameter (a setting the vendor declares as a bit field: iCE40's
+DIVR, DIVF, DIVQ and FILTER_RANGE) is written in decimal at its width in
+Verilog (``4'd0``), as the plan states it; in VHDL it is a bit-string, the
+only literal of a ``bit_vector`` generic that VHDL-93 also accepts (the
+decimal form ``4D"0"`` is VHDL-2008 only, and the wrappers analyse under
+both).  Integer and real parameters stay plain numbers: the vendors'
+primitives declare them ``integer`` or ``real``, with no field width.
 """
 
 from __future__ import annotations
@@ -17,7 +25,9 @@ from synccore.units import fixed
 def _verilog_literal(v: Value) -> str:
     if v.kind == "int":
         return str(int(v.number))
-    if v.kind == "bits" or v.kind == "level":
+    if v.kind == "bits":
+        return f"{v.width}'d{int(v.number)}"
+    if v.kind == "level":
         return f"{v.width}'b{int(v.number):0{v.width}b}"
     if v.kind == "str":
         return f'"{v.text}"'
