@@ -5,13 +5,19 @@ from __future__ import annotations
 import sys
 import tempfile
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import click
 from rich.console import Console
 from rich.table import Table
 
 from synccore.errors import SpecError
+from synccore.spec import Spec
 from synccore.timings import load
+
+if TYPE_CHECKING:  # the picture modules load numpy and Pillow: only when the command runs
+    from synccore.picture.monitor import Monitor
+    from synccore.picture.run import Pins
 
 MONITOR_CAUTION = (
     "This is a simulated monitor. Before wiring a real one, check the FPGA bank's I/O "
@@ -44,53 +50,87 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
                  monitor_range: str | None, vcd: str | None, mapping: str | None,
                  work_dir: str | None) -> None:  # fmt: skip
     """Simulate SPEC's first-light design and look at it as a monitor would: rates, mode, PNG."""
-    from synccore.model.pattern import pattern_problems
-    from synccore.picture.monitor import parse_range, watch
-    from synccore.picture.run import ViewError, simulate
-    from synccore.picture.vcd import VcdError, parse_map, read
+    from synccore.picture.monitor import watch
 
-    console = Console(highlight=False, soft_wrap=True)
-    rng = None
-    if monitor_range:
-        try:
-            rng = parse_range(monitor_range)
-        except ValueError as err:
-            raise click.BadParameter(str(err), param_hint="--monitor-range") from None
+    rng = _monitor_range(monitor_range)
     if vcd:
-        if not mapping:
-            raise click.UsageError("--vcd needs --map, e.g. --map clk=top.clk,hsync=top.hs,vsync=top.vs")
-        try:
-            pins = read(vcd, parse_map(mapping))
-        except VcdError as err:
-            click.echo(str(err), err=True)
-            sys.exit(2)
+        pins = _pins_from_vcd(vcd, mapping)
         name = Path(vcd).stem
         title = f"{vcd}"
     else:
         if spec is None:
             raise click.UsageError("give a SPEC, or --vcd with --map")
-        try:
-            s = load(spec)
-        except SpecError as err:
-            for p in err.problems:
-                click.echo(str(p), err=True)
-            sys.exit(2)
-        problems = pattern_problems(s)
-        if problems:
-            click.echo(str(SpecError(problems)), err=True)  # every problem, one line each
-            sys.exit(2)
+        s = _load(spec)
         name = s.name
         title = f"{s.name} ({pattern}) on {engine}"
-        try:
-            if work_dir:
-                pins = simulate(s, pattern, engine=engine, work_dir=Path(work_dir))
-            else:
-                with tempfile.TemporaryDirectory(prefix="synccore-view-") as tmp:
-                    pins = simulate(s, pattern, engine=engine, work_dir=Path(tmp))
-        except ViewError as err:
-            click.echo(str(err), err=True)
-            sys.exit(2)
+        pins = _simulate(s, pattern, engine, work_dir)
     mon = watch(pins, monitor_range=rng)
+    _show(mon, title, Path(out_png or f"{name}_view.png"))
+    if mon.problems:
+        for problem in mon.problems:
+            click.echo(f"PROBLEM {problem}", err=True)
+        sys.exit(1)
+
+
+def _monitor_range(text: str | None) -> tuple[tuple[float, float], tuple[float, float]] | None:
+    """The rates ``--monitor-range`` gives, or None when it is not given."""
+    from synccore.picture.monitor import parse_range
+
+    if not text:
+        return None
+    try:
+        return parse_range(text)
+    except ValueError as err:
+        raise click.BadParameter(str(err), param_hint="--monitor-range") from None
+
+
+def _pins_from_vcd(vcd: str, mapping: str | None) -> Pins:
+    """The pins recorded in the user's own VCD (or FST), found through ``--map``."""
+    from synccore.picture.vcd import VcdError, parse_map, read
+
+    if not mapping:
+        raise click.UsageError("--vcd needs --map, e.g. --map clk=top.clk,hsync=top.hs,vsync=top.vs")
+    try:
+        return read(vcd, parse_map(mapping))
+    except VcdError as err:
+        click.echo(str(err), err=True)
+        sys.exit(2)
+
+
+def _load(spec: str) -> Spec:
+    """The spec, if it loads and its first-light pattern can be drawn; exit 2 otherwise."""
+    from synccore.model.pattern import pattern_problems
+
+    try:
+        s = load(spec)
+    except SpecError as err:
+        for p in err.problems:
+            click.echo(str(p), err=True)
+        sys.exit(2)
+    problems = pattern_problems(s)
+    if problems:
+        click.echo(str(SpecError(problems)), err=True)  # every problem, one line each
+        sys.exit(2)
+    return s
+
+
+def _simulate(s: Spec, pattern: str, engine: str, work_dir: str | None) -> Pins:
+    """The pins of the first-light design run on ``engine``, in ``work_dir`` or a temporary one."""
+    from synccore.picture.run import ViewError, simulate
+
+    try:
+        if work_dir:
+            return simulate(s, pattern, engine=engine, work_dir=Path(work_dir))
+        with tempfile.TemporaryDirectory(prefix="synccore-view-") as tmp:
+            return simulate(s, pattern, engine=engine, work_dir=Path(tmp))
+    except ViewError as err:
+        click.echo(str(err), err=True)
+        sys.exit(2)
+
+
+def _show(mon: Monitor, title: str, target: Path) -> None:
+    """The monitor's summary table and notes, the PNG of the visible frame, the caution."""
+    console = Console(highlight=False, soft_wrap=True)
     table = Table(title=f"simulated monitor: {title}", title_justify="left", show_header=False)
     table.add_column(style="bold")
     table.add_column()
@@ -100,11 +140,6 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     for note in mon.notes:
         console.print(f"note: {note}")
     if mon.image is not None:
-        target = Path(out_png or f"{name}_view.png")
         mon.image.save(target)
         console.print(f"wrote {target}")
     console.print(MONITOR_CAUTION, style="dim")
-    if mon.problems:
-        for problem in mon.problems:
-            click.echo(f"PROBLEM {problem}", err=True)
-        sys.exit(1)

@@ -3,7 +3,9 @@
 from __future__ import annotations
 
 import difflib
+import functools
 import re
+from collections.abc import Callable
 from decimal import Decimal, InvalidOperation
 from fractions import Fraction
 from typing import Any
@@ -59,6 +61,103 @@ def _describe(value: Any) -> str:
     return repr(value)
 
 
+Report = Callable[[str], None]
+"""Records one problem (its message) at the value being checked."""
+
+
+def _check_int(f: Field, value: Any, bad: Report) -> Any:
+    if isinstance(value, bool) or not isinstance(value, int):
+        bad(f"must be a whole number, got {value!r}")
+        return None
+    if f.minimum is not None and value < f.minimum:
+        bad(f"must be ≥ {f.minimum}, got {value}")
+        return None
+    if f.maximum is not None and value > f.maximum:
+        bad(f"must be ≤ {f.maximum}, got {value}")
+        return None
+    return value
+
+
+def _check_bool(f: Field, value: Any, bad: Report) -> Any:
+    if not isinstance(value, bool):
+        bad(f"must be true or false, got {value!r}")
+        return None
+    return value
+
+
+def _check_choice(f: Field, value: Any, bad: Report) -> Any:
+    if value not in f.choices or isinstance(value, bool):
+        allowed = ", ".join(str(c) for c in f.choices)
+        hint = _near(str(value), [str(c) for c in f.choices])
+        bad(f"must be one of {allowed}, got {value!r}{hint}")
+        return None
+    return value
+
+
+def _check_decimal(f: Field, value: Any, bad: Report) -> Any:
+    number = parse_frequency(value)  # a plain non-negative number, no unit
+    if number is None or isinstance(value, str) and not _PLAIN.match(value):
+        bad(f"must be a number ≥ 0, got {value!r}")
+        return None
+    return number
+
+
+def _check_text(f: Field, value: Any, bad: Report) -> Any:
+    if not isinstance(value, str) or not value.strip():
+        bad(f"must be text, got {value!r}")
+        return None
+    return value
+
+
+def _check_identifier(f: Field, value: Any, bad: Report) -> Any:
+    if not isinstance(value, str):
+        bad(f"must be a name, got {value!r}")
+        return None
+    reason = identifier_problem(value)
+    if reason:
+        bad(f"{reason}, got {value!r}")
+        return None
+    return value
+
+
+def _check_prefix(f: Field, value: Any, bad: Report) -> Any:
+    if value is None:
+        return ""
+    if not isinstance(value, str):
+        bad(f"must be text, got {value!r}")
+        return None
+    if value and identifier_problem(value + "x") and identifier_problem(value.rstrip("_") + "_x"):
+        bad("must start with a letter and hold only letters, digits and single "
+            f"underscores, got {value!r}")  # fmt: skip
+        return None
+    return value
+
+
+def _check_frequency(f: Field, value: Any, bad: Report) -> Any:
+    hz = parse_frequency(value)
+    if hz is None:
+        bad('must be a frequency in Hz or a string like "25.175 MHz" or "25175 kHz", '
+            f"got {value!r}")  # fmt: skip
+        return None
+    if hz <= 0 or hz > MAX_PIXEL_CLOCK_HZ:
+        bad(f"must be above 0 and at most 10 GHz, got {value!r}")
+        return None
+    return hz
+
+
+_SCALAR_CHECKS: dict[str, Callable[[Field, Any, Report], Any]] = {
+    "int": _check_int,
+    "bool": _check_bool,
+    "choice": _check_choice,
+    "decimal": _check_decimal,
+    "text": _check_text,
+    "identifier": _check_identifier,
+    "prefix": _check_prefix,
+    "frequency": _check_frequency,
+}
+"""The checker of each single-value field kind: the checked value, or None after a problem."""
+
+
 def _check_value(f: Field, node: loader.Node, path: str, out: Collector) -> Any:
     """Return the checked Python value of one field, or None after recording a problem."""
     where = node.location
@@ -67,77 +166,13 @@ def _check_value(f: Field, node: loader.Node, path: str, out: Collector) -> Any:
             out.add(where, path, f"must be a mapping of {field_names(f.fields)}, got {describe_node(node)}")
             return None
         return check_section(f.fields, node, path, out)
+    check = _SCALAR_CHECKS.get(f.kind)
+    if check is None:  # pragma: no cover
+        raise AssertionError(f"unknown field kind {f.kind!r}")
     if not isinstance(node, loader.Scalar):
         out.add(where, path, f"must be a single value, got {_describe(node)}")
         return None
-    value = node.value
-    if f.kind == "int":
-        if isinstance(value, bool) or not isinstance(value, int):
-            out.add(where, path, f"must be a whole number, got {value!r}")
-            return None
-        if f.minimum is not None and value < f.minimum:
-            out.add(where, path, f"must be ≥ {f.minimum}, got {value}")
-            return None
-        if f.maximum is not None and value > f.maximum:
-            out.add(where, path, f"must be ≤ {f.maximum}, got {value}")
-            return None
-        return value
-    if f.kind == "bool":
-        if not isinstance(value, bool):
-            out.add(where, path, f"must be true or false, got {value!r}")
-            return None
-        return value
-    if f.kind == "choice":
-        if value not in f.choices or isinstance(value, bool):
-            allowed = ", ".join(str(c) for c in f.choices)
-            hint = _near(str(value), [str(c) for c in f.choices])
-            out.add(where, path, f"must be one of {allowed}, got {value!r}{hint}")
-            return None
-        return value
-    if f.kind == "decimal":
-        number = parse_frequency(value)  # a plain non-negative number, no unit
-        if number is None or isinstance(value, str) and not _PLAIN.match(value):
-            out.add(where, path, f"must be a number ≥ 0, got {value!r}")
-            return None
-        return number
-    if f.kind == "text":
-        if not isinstance(value, str) or not value.strip():
-            out.add(where, path, f"must be text, got {value!r}")
-            return None
-        return value
-    if f.kind == "identifier":
-        if not isinstance(value, str):
-            out.add(where, path, f"must be a name, got {value!r}")
-            return None
-        reason = identifier_problem(value)
-        if reason:
-            out.add(where, path, f"{reason}, got {value!r}")
-            return None
-        return value
-    if f.kind == "prefix":
-        if value is None:
-            return ""
-        if not isinstance(value, str):
-            out.add(where, path, f"must be text, got {value!r}")
-            return None
-        if value and identifier_problem(value + "x") and identifier_problem(value.rstrip("_") + "_x"):
-            out.add(where, path,
-                    "must start with a letter and hold only letters, digits and single "
-                    f"underscores, got {value!r}")  # fmt: skip
-            return None
-        return value
-    if f.kind == "frequency":
-        hz = parse_frequency(value)
-        if hz is None:
-            out.add(where, path,
-                    'must be a frequency in Hz or a string like "25.175 MHz" or "25175 kHz", '
-                    f"got {value!r}")  # fmt: skip
-            return None
-        if hz <= 0 or hz > MAX_PIXEL_CLOCK_HZ:
-            out.add(where, path, f"must be above 0 and at most 10 GHz, got {value!r}")
-            return None
-        return hz
-    raise AssertionError(f"unknown field kind {f.kind!r}")  # pragma: no cover
+    return check(f, node.value, functools.partial(out.add, where, path))
 
 
 def describe_node(node: loader.Node) -> str:

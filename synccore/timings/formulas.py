@@ -119,6 +119,8 @@ def cvt(width: int, height: int, refresh: Fraction | int, *,
     """VESA CVT 1.2: ``reduced`` 0 (standard blanking, CRT), 1 (RB v1) or 2 (RB v2).
 
     ``video_optimized`` (RB v2 only) lowers the clock by 1000/1001, for 59.94 Hz etc.
+    The steps common to both blanking kinds are here; the standard's two computations
+    follow in :func:`_cvt_standard_blanking` and :func:`_cvt_reduced_blanking`.
     """
     rate = Fraction(refresh)
     _check(width, height, rate)
@@ -128,64 +130,77 @@ def cvt(width: int, height: int, refresh: Fraction | int, *,
     notes: list[str] = []
     frame_us = Fraction(1_000_000) / rate
     if reduced == 2:
-        cell, h_rnd = 1, width
+        h_rnd = width  # RB v2 has a one-pixel cell
         v_sync = RB2_V_SYNC
     else:
-        cell, h_rnd = CELL_GRAN, (width // CELL_GRAN) * CELL_GRAN
+        h_rnd = (width // CELL_GRAN) * CELL_GRAN
         _cell_width(width, h_rnd, method, notes)
         v_sync = cvt_vsync_lines(width, height)
         if v_sync == CUSTOM_ASPECT_VSYNC:
             notes.append(f"{width}x{height} is none of CVT's aspect ratios (4:3, 16:9, 16:10, "
                          f"5:4, 15:9): vertical sync is {CUSTOM_ASPECT_VSYNC} lines")  # fmt: skip
-    del cell
     if reduced == 0:
-        h_period = (frame_us - CVT_MIN_VSYNC_BP_US) / (height + CVT_MIN_V_PORCH)
-        if h_period <= 0:
-            raise FormulaError(f"refresh {float(rate):g} Hz is too high for CVT")
-        v_sync_bp = _floor(CVT_MIN_VSYNC_BP_US / h_period) + 1
-        v_sync_bp = max(v_sync_bp, v_sync + CVT_MIN_V_BPORCH)
-        v_total = height + v_sync_bp + CVT_MIN_V_PORCH
-        duty = C_PRIME - M_PRIME * h_period / 1000
-        if duty < 20:
-            duty = Fraction(20)
-        h_blank = _floor(h_rnd * duty / (100 - duty) / (2 * CELL_GRAN)) * 2 * CELL_GRAN
-        h_total = h_rnd + h_blank
-        clock = CVT_CLOCK_STEP_HZ * _floor(h_total / h_period * 1_000_000 / CVT_CLOCK_STEP_HZ)
-        h_sync = _floor(CVT_H_SYNC_PERCENT / 100 * h_total / CELL_GRAN) * CELL_GRAN
-        h_back = h_blank // 2
-        h_front = h_blank - h_sync - h_back
-        v = Axis(height, CVT_MIN_V_PORCH, v_sync, v_sync_bp - v_sync, "positive")
-        h_pol = "negative"
+        clock, h, v = _cvt_standard_blanking(h_rnd, height, rate, frame_us, v_sync)
     else:
-        h_period = (frame_us - RB_MIN_V_BLANK_US) / height
-        if h_period <= 0:
-            raise FormulaError(f"refresh {float(rate):g} Hz is too high for CVT")
-        vbi = _floor(RB_MIN_V_BLANK_US / h_period) + 1
-        if reduced == 1:
-            vbi = max(vbi, RB1_V_FPORCH + v_sync + CVT_MIN_V_BPORCH)
-            h_blank, h_sync, h_back = RB1_H_BLANK, RB1_H_SYNC, RB1_H_BACK
-            step = CVT_CLOCK_STEP_HZ
-            v = Axis(height, RB1_V_FPORCH, v_sync, vbi - RB1_V_FPORCH - v_sync, "negative")
-        else:
-            vbi = max(vbi, RB2_V_FPORCH_MIN + v_sync + CVT_MIN_V_BPORCH)
-            h_blank, h_sync, h_back = RB2_H_BLANK, RB2_H_SYNC, RB2_H_BACK
-            step = RB2_CLOCK_STEP_HZ
-            v = Axis(height, vbi - v_sync - CVT_MIN_V_BPORCH, v_sync, CVT_MIN_V_BPORCH,
-                     "negative")  # fmt: skip
-        h_total = h_rnd + h_blank
-        h_front = h_blank - h_sync - h_back
-        v_total = height + vbi
-        ideal = rate * v_total * h_total
-        if video_optimized:
-            ideal = ideal * 1000 / 1001
-            notes.append("video-optimized: pixel clock lowered by 1000/1001")
-        clock = step * _floor(ideal / step)
-        h_pol = "positive"
+        clock, h, v = _cvt_reduced_blanking(h_rnd, height, rate, frame_us, v_sync,
+                                            reduced=reduced, video_optimized=video_optimized,
+                                            notes=notes)  # fmt: skip
     # Keep the requested width: the cell rounding moves into the front porch.
-    h_front -= width - h_rnd
-    h = Axis(width, h_front, h_sync, h_back, h_pol)
+    h = Axis(width, h.front_porch - (width - h_rnd), h.sync, h.back_porch, h.sync_polarity)
     _sane(method, width, height, rate, h, v, Fraction(clock))
     return FormulaResult(method, Fraction(clock), h, v, tuple(notes))
+
+
+def _cvt_standard_blanking(h_rnd: int, height: int, rate: Fraction, frame_us: Fraction,
+                           v_sync: int) -> tuple[int, Axis, Axis]:  # fmt: skip
+    """CVT standard (CRT) blanking: the pixel clock and both axes, on the cell-rounded width."""
+    h_period = (frame_us - CVT_MIN_VSYNC_BP_US) / (height + CVT_MIN_V_PORCH)
+    if h_period <= 0:
+        raise FormulaError(f"refresh {float(rate):g} Hz is too high for CVT")
+    v_sync_bp = _floor(CVT_MIN_VSYNC_BP_US / h_period) + 1
+    v_sync_bp = max(v_sync_bp, v_sync + CVT_MIN_V_BPORCH)
+    duty = C_PRIME - M_PRIME * h_period / 1000
+    if duty < 20:
+        duty = Fraction(20)
+    h_blank = _floor(h_rnd * duty / (100 - duty) / (2 * CELL_GRAN)) * 2 * CELL_GRAN
+    h_total = h_rnd + h_blank
+    clock = CVT_CLOCK_STEP_HZ * _floor(h_total / h_period * 1_000_000 / CVT_CLOCK_STEP_HZ)
+    h_sync = _floor(CVT_H_SYNC_PERCENT / 100 * h_total / CELL_GRAN) * CELL_GRAN
+    h_back = h_blank // 2
+    h_front = h_blank - h_sync - h_back
+    h = Axis(h_rnd, h_front, h_sync, h_back, "negative")
+    v = Axis(height, CVT_MIN_V_PORCH, v_sync, v_sync_bp - v_sync, "positive")
+    return clock, h, v
+
+
+def _cvt_reduced_blanking(h_rnd: int, height: int, rate: Fraction, frame_us: Fraction,
+                          v_sync: int, *, reduced: int, video_optimized: bool,
+                          notes: list[str]) -> tuple[int, Axis, Axis]:  # fmt: skip
+    """CVT reduced blanking, v1 or v2: the pixel clock and both axes, on the rounded width."""
+    h_period = (frame_us - RB_MIN_V_BLANK_US) / height
+    if h_period <= 0:
+        raise FormulaError(f"refresh {float(rate):g} Hz is too high for CVT")
+    vbi = _floor(RB_MIN_V_BLANK_US / h_period) + 1
+    if reduced == 1:
+        vbi = max(vbi, RB1_V_FPORCH + v_sync + CVT_MIN_V_BPORCH)
+        h_blank, h_sync, h_back = RB1_H_BLANK, RB1_H_SYNC, RB1_H_BACK
+        step = CVT_CLOCK_STEP_HZ
+        v = Axis(height, RB1_V_FPORCH, v_sync, vbi - RB1_V_FPORCH - v_sync, "negative")
+    else:
+        vbi = max(vbi, RB2_V_FPORCH_MIN + v_sync + CVT_MIN_V_BPORCH)
+        h_blank, h_sync, h_back = RB2_H_BLANK, RB2_H_SYNC, RB2_H_BACK
+        step = RB2_CLOCK_STEP_HZ
+        v = Axis(height, vbi - v_sync - CVT_MIN_V_BPORCH, v_sync, CVT_MIN_V_BPORCH,
+                 "negative")  # fmt: skip
+    h_total = h_rnd + h_blank
+    h_front = h_blank - h_sync - h_back
+    v_total = height + vbi
+    ideal = rate * v_total * h_total
+    if video_optimized:
+        ideal = ideal * 1000 / 1001
+        notes.append("video-optimized: pixel clock lowered by 1000/1001")
+    clock = step * _floor(ideal / step)
+    return clock, Axis(h_rnd, h_front, h_sync, h_back, "positive"), v
 
 
 def gtf(width: int, height: int, refresh: Fraction | int) -> FormulaResult:

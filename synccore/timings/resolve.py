@@ -192,6 +192,29 @@ def _is_range(node: Node | None) -> bool:
 def _ranges(given: dict[str, Node], keys: dict[str, Location], doc: Located,
             result: Resolved, out: Collector) -> None:  # fmt: skip
     """Resolve ``{min, typ, max}`` ranges against the ``fit:`` target, in place."""
+    range_nodes, axes = _find_ranges(given)
+    fit_node = given.pop("fit", None)
+    fit_where = keys.pop("fit", doc.location)
+    if not range_nodes:
+        if fit_node is not None:
+            out.add(fit_where, "fit", "has nothing to choose: give at least one value as a "
+                                      "range {min, typ, max}")  # fmt: skip
+        return
+    ranges = _parse_ranges(range_nodes, out)
+    target = _fit_target(fit_node, fit_where, range_nodes, out)
+    fit_at: dict[str, Location] = {}
+    if isinstance(fit_node, Located) and isinstance(fit_node.value, dict):
+        fit_at = {k: n.location for k, n in fit_node.value.items()}
+    solved = (_solve(given, keys, axes, ranges, target, fit_where, fit_at, out)
+              if target else None)  # fmt: skip
+    _write_chosen(given, axes, range_nodes, ranges, solved)
+    if solved is not None:
+        result.origin = "fitted to datasheet ranges"
+        result.notes = tuple(solved["__notes__"])
+
+
+def _find_ranges(given: dict[str, Node]) -> tuple[dict[str, Located], dict[str, Located]]:
+    """The values given as ranges, by dotted path, and the axis mappings."""
     range_nodes: dict[str, Located] = {}
     clock_node = given.get("pixel_clock_hz")
     if clock_node is not None and _is_range(clock_node):
@@ -207,15 +230,12 @@ def _ranges(given: dict[str, Node], keys: dict[str, Location], doc: Located,
                     n = a.value[k]
                     assert isinstance(n, Located)
                     range_nodes[f"{label}.{k}"] = n
-    fit_node = given.pop("fit", None)
-    fit_where = keys.pop("fit", doc.location)
-    if not range_nodes:
-        if fit_node is not None:
-            out.add(fit_where, "fit", "has nothing to choose: give at least one value as a "
-                                      "range {min, typ, max}")  # fmt: skip
-        return
+    return range_nodes, axes
 
-    # Parse every range, collecting problems.
+
+def _parse_ranges(range_nodes: dict[str, Located],
+                  out: Collector) -> dict[str, fitting.Range | None]:  # fmt: skip
+    """Every range parsed, collecting problems (None for a bad one)."""
     ranges: dict[str, fitting.Range | None] = {}
     for path, n in range_nodes.items():
         if path == "pixel_clock_hz":
@@ -223,24 +243,29 @@ def _ranges(given: dict[str, Node], keys: dict[str, Location], doc: Located,
         else:
             minimum = 1 if path.endswith(".sync") else 0
             ranges[path] = _parse_range(n, "int", minimum, path, out)
-    target: dict[str, Any] | None = None
+    return ranges
+
+
+def _fit_target(fit_node: Node | None, fit_where: Location, range_nodes: dict[str, Located],
+                out: Collector) -> dict[str, Any] | None:  # fmt: skip
+    """The checked ``fit:`` section; None (after a problem) when it is missing or bad."""
     if fit_node is None:
         first = min(range_nodes.values(), key=lambda n: n.location).location
         out.add(first, next(p for p, n in range_nodes.items() if n.location == first),
                 "a range needs a fit: section with a refresh or pixel_clock_hz target")  # fmt: skip
-    elif not _is_range(fit_node):
+        return None
+    if not _is_range(fit_node):
         out.add(fit_where, "fit", f"must be a mapping of refresh, pixel_clock_hz, "
                                   f"tolerance_percent, got {describe_node(fit_node)}")  # fmt: skip
-    else:
-        assert isinstance(fit_node, Located)
-        target = check_section(FIT_FIELDS, fit_node, "fit", out)
+        return None
+    assert isinstance(fit_node, Located)
+    return check_section(FIT_FIELDS, fit_node, "fit", out)
 
-    fit_at: dict[str, Location] = {}
-    if isinstance(fit_node, Located) and isinstance(fit_node.value, dict):
-        fit_at = {k: n.location for k, n in fit_node.value.items()}
-    solved = (_solve(given, keys, axes, ranges, target, fit_where, fit_at, out)
-              if target else None)  # fmt: skip
-    # Write the chosen numbers (or, after a problem, the typical ones) in place of the ranges.
+
+def _write_chosen(given: dict[str, Node], axes: dict[str, Located],
+                  range_nodes: dict[str, Located], ranges: dict[str, fitting.Range | None],
+                  solved: dict[str, Any] | None) -> None:  # fmt: skip
+    """Write the chosen numbers (or, after a problem, the typical ones) in place of the ranges."""
     for path, n in range_nodes.items():
         value: Any
         if solved is not None:
@@ -257,9 +282,6 @@ def _ranges(given: dict[str, Node], keys: dict[str, Location], doc: Located,
             inner[k] = _scalar(value, n.location)
             axes[label] = Located(inner, a.location, dict(a.key_locations))
             given[label] = axes[label]
-    if solved is not None:
-        result.origin = "fitted to datasheet ranges"
-        result.notes = tuple(solved["__notes__"])
 
 
 def _int_or_none(node: Node | None) -> int | None:
@@ -276,54 +298,13 @@ def _solve(given: dict[str, Node], keys: dict[str, Location],
     """Run the fitter when every input it needs is valid; report honestly when it falls short."""
     if any(r is None for r in ranges.values()) or set(axes) != {"horizontal", "vertical"}:
         return None  # problems already recorded (or recorded later by the validator)
-    built: dict[str, fitting.AxisRanges] = {}
-    for label, a in axes.items():
-        active = _int_or_none(a.value.get("active"))
-        pol = a.value.get("sync_polarity")
-        parts: dict[str, fitting.Range] = {}
-        for k in AXIS_RANGED:
-            path = f"{label}.{k}"
-            if path in ranges:
-                r = ranges[path]
-                assert r is not None
-                parts[k] = r
-            else:
-                fixed_value = _int_or_none(a.value.get(k))
-                if fixed_value is None:
-                    return None  # the validator reports it
-                parts[k] = fitting.Range.fixed(fixed_value)
-        if active is None or not isinstance(pol, Scalar):
-            return None
-        built[label] = fitting.AxisRanges(active, parts["front_porch"], parts["sync"],
-                                          parts["back_porch"], str(pol.value))  # fmt: skip
-
-    board = target["pixel_clock_hz"]
-    if "pixel_clock_hz" in ranges:
-        clock_range = ranges["pixel_clock_hz"]
-        assert clock_range is not None
-        if board is not None:
-            if board not in clock_range:
-                out.add(fit_at.get("pixel_clock_hz", fit_where), "fit.pixel_clock_hz",
-                        f"lies outside the datasheet range {hz(clock_range.min)} .. "
-                        f"{hz(clock_range.max)}, got {hz(board)}")  # fmt: skip
-                return None
-            clock_range = fitting.Range.fixed(board)
-    else:
-        node = given.get("pixel_clock_hz")
-
-        fixed_clock = parse_frequency(node.value) if isinstance(node, Scalar) else None
-        if board is not None and node is not None:
-            out.add(fit_at.get("pixel_clock_hz", fit_where), "fit.pixel_clock_hz",
-                    f"conflicts with pixel_clock_hz (at {keys['pixel_clock_hz']}); give the "
-                    "board clock once")  # fmt: skip
-            return None
-        if board is not None:
-            fixed_clock = board
-            given["pixel_clock_hz"] = _scalar(board, fit_where)
-            keys["pixel_clock_hz"] = fit_where
-        if fixed_clock is None or fixed_clock <= 0:
-            return None  # missing or invalid: the validator reports it
-        clock_range = fitting.Range.fixed(fixed_clock)
+    built = _axis_ranges(axes, ranges)
+    if built is None:
+        return None
+    clock_range = _clock_range(given, keys, ranges, target["pixel_clock_hz"], fit_where,
+                               fit_at, out)  # fmt: skip
+    if clock_range is None:
+        return None
     if target["refresh"] is None and clock_range.typ is None:
         out.add(fit_where, "fit.refresh", "required key is missing (the clock range has no typ "
                                           "to take the target from)")  # fmt: skip
@@ -349,3 +330,66 @@ def _solve(given: dict[str, Node], keys: dict[str, Location],
             solved[f"{label}.{k}"] = getattr(chosen, k)
     solved["__notes__"] = [landed + bound]
     return solved
+
+
+def _axis_ranges(axes: dict[str, Located], ranges: dict[str, fitting.Range | None]
+                 ) -> dict[str, fitting.AxisRanges] | None:  # fmt: skip
+    """Each axis as the fitter takes it (fixed values as one-point ranges); None if one is bad."""
+    built: dict[str, fitting.AxisRanges] = {}
+    for label, a in axes.items():
+        active = _int_or_none(a.value.get("active"))
+        pol = a.value.get("sync_polarity")
+        parts: dict[str, fitting.Range] = {}
+        for k in AXIS_RANGED:
+            path = f"{label}.{k}"
+            if path in ranges:
+                r = ranges[path]
+                assert r is not None
+                parts[k] = r
+            else:
+                fixed_value = _int_or_none(a.value.get(k))
+                if fixed_value is None:
+                    return None  # the validator reports it
+                parts[k] = fitting.Range.fixed(fixed_value)
+        if active is None or not isinstance(pol, Scalar):
+            return None
+        built[label] = fitting.AxisRanges(active, parts["front_porch"], parts["sync"],
+                                          parts["back_porch"], str(pol.value))  # fmt: skip
+    return built
+
+
+def _clock_range(given: dict[str, Node], keys: dict[str, Location],
+                 ranges: dict[str, fitting.Range | None], board: Fraction | None,
+                 fit_where: Location, fit_at: dict[str, Location],
+                 out: Collector) -> fitting.Range | None:  # fmt: skip
+    """The pixel clocks the fitter may choose from: the datasheet range, or one fixed clock.
+
+    ``board`` is ``fit.pixel_clock_hz``, the clock the board gives; given beside a fixed
+    ``pixel_clock_hz`` it is refused, and it is written in as ``pixel_clock_hz`` when that
+    is absent.  None when there is no usable clock (after a problem, or for the validator).
+    """
+    if "pixel_clock_hz" in ranges:
+        clock_range = ranges["pixel_clock_hz"]
+        assert clock_range is not None
+        if board is None:
+            return clock_range
+        if board not in clock_range:
+            out.add(fit_at.get("pixel_clock_hz", fit_where), "fit.pixel_clock_hz",
+                    f"lies outside the datasheet range {hz(clock_range.min)} .. "
+                    f"{hz(clock_range.max)}, got {hz(board)}")  # fmt: skip
+            return None
+        return fitting.Range.fixed(board)
+    node = given.get("pixel_clock_hz")
+    fixed_clock = parse_frequency(node.value) if isinstance(node, Scalar) else None
+    if board is not None and node is not None:
+        out.add(fit_at.get("pixel_clock_hz", fit_where), "fit.pixel_clock_hz",
+                f"conflicts with pixel_clock_hz (at {keys['pixel_clock_hz']}); give the "
+                "board clock once")  # fmt: skip
+        return None
+    if board is not None:
+        fixed_clock = board
+        given["pixel_clock_hz"] = _scalar(board, fit_where)
+        keys["pixel_clock_hz"] = fit_where
+    if fixed_clock is None or fixed_clock <= 0:
+        return None  # missing or invalid: the validator reports it
+    return fitting.Range.fixed(fixed_clock)

@@ -7,16 +7,26 @@ and ``builtin``, Amaranth's simulator on the Amaranth model of the same timing.
 
 from __future__ import annotations
 
+import contextlib
 import tempfile
 import threading
 import time
-from collections.abc import Callable, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from synccore.model import Timing
 from synccore.spec import Spec
-from synccore.verification.measure import Figure, Row, compare, failures, measure, parse_events, stop_count
+from synccore.verification.measure import (
+    Event,
+    Figure,
+    Row,
+    compare,
+    failures,
+    measure,
+    parse_events,
+    stop_count,
+)
 from synccore.verification.tools import SIMULATORS, find
 
 ENGINES = (*SIMULATORS, "builtin")
@@ -100,59 +110,83 @@ def run_engine(
     start = time.perf_counter()
     run_dir = work_dir / engine
     run_dir.mkdir(parents=True, exist_ok=True)
+    events: list[Event] | None
     if engine == "builtin":
-        from synccore.amaranth.core import run_builtin
-
-        vcd = run_dir / "waves.vcd" if waves else None
-        events = run_builtin(spec, frames=frames, vcd=vcd,
-                             progress=(lambda n: progress("builtin", n)) if progress else None)  # fmt: skip
-        if vcd is not None:
-            run.waves.append(vcd)
+        events = _run_builtin(spec, run, run_dir, frames=frames, waves=waves, progress=progress)
     else:
-        from synccore.verification.simulate import run_bench
-
-        events_file = run_dir / "events.txt"
-        progress_file = run_dir / "progress.txt"
-        progress_file.write_text("0")
-        events_file.unlink(missing_ok=True)
-        stop = threading.Event()
-        poller = None
-        if progress is not None:
-            poller = threading.Thread(target=_poll, args=(progress_file, engine, progress, stop),
-                                      daemon=True)  # fmt: skip
-            poller.start()
-        try:
-            result = run_bench(
-                spec,
-                simulator=engine,
-                run_dir=run_dir,
-                bench="measure_bench",
-                harness=True,
-                waves=waves,
-                core_text=core_text,
-                env={"SYNCCORE_FRAMES": str(frames), "SYNCCORE_PROGRESS": str(progress_file)},
-                harness_args={"events": str(events_file.resolve()), "stop": stop_count(t, frames)},
-            )
-        finally:
-            stop.set()
-            if poller is not None:
-                poller.join()
-        run.log = result.log
-        if waves:
-            run.waves += sorted(p for folder in (result.run_dir, result.build_dir)
-                                if folder.is_dir() for p in folder.iterdir()
-                                if p.suffix in (".fst", ".vcd", ".ghw"))  # fmt: skip
-        if not result.passed or not events_file.is_file():
-            run.error = f"simulation failed; see {result.log}"
-            run.seconds = time.perf_counter() - start
-            return run
-        events = parse_events(events_file.read_text())
+        events = _run_simulator(spec, t, run, run_dir, frames=frames, waves=waves,
+                                progress=progress, core_text=core_text)  # fmt: skip
     run.seconds = time.perf_counter() - start
+    if events is None:
+        return run
     run.cycles = events[-1].adv if events else 0
     run.figures = measure(events, t)
     if progress is not None:
         progress(engine, frames)
     return run
+
+
+def _run_builtin(spec: Spec, run: EngineRun, run_dir: Path, *, frames: int, waves: bool,
+                 progress: Progress | None) -> list[Event]:  # fmt: skip
+    """The events of the Amaranth model in Amaranth's simulator (waves as VCD if asked)."""
+    from synccore.amaranth.core import run_builtin
+
+    vcd = run_dir / "waves.vcd" if waves else None
+    events = run_builtin(spec, frames=frames, vcd=vcd,
+                         progress=(lambda n: progress("builtin", n)) if progress else None)  # fmt: skip
+    if vcd is not None:
+        run.waves.append(vcd)
+    return events
+
+
+def _run_simulator(spec: Spec, t: Timing, run: EngineRun, run_dir: Path, *, frames: int,
+                   waves: bool, progress: Progress | None, core_text: str | None
+                   ) -> list[Event] | None:  # fmt: skip
+    """The events the harness wrote in a real simulator; None (and ``run.error``) if it failed."""
+    from synccore.verification.simulate import run_bench
+
+    engine = run.engine
+    events_file = run_dir / "events.txt"
+    progress_file = run_dir / "progress.txt"
+    progress_file.write_text("0")
+    events_file.unlink(missing_ok=True)
+    with _polling(progress_file, engine, progress):
+        result = run_bench(
+            spec,
+            simulator=engine,
+            run_dir=run_dir,
+            bench="measure_bench",
+            harness=True,
+            waves=waves,
+            core_text=core_text,
+            env={"SYNCCORE_FRAMES": str(frames), "SYNCCORE_PROGRESS": str(progress_file)},
+            harness_args={"events": str(events_file.resolve()), "stop": stop_count(t, frames)},
+        )
+    run.log = result.log
+    if waves:
+        run.waves += sorted(p for folder in (result.run_dir, result.build_dir)
+                            if folder.is_dir() for p in folder.iterdir()
+                            if p.suffix in (".fst", ".vcd", ".ghw"))  # fmt: skip
+    if not result.passed or not events_file.is_file():
+        run.error = f"simulation failed; see {result.log}"
+        return None
+    return parse_events(events_file.read_text())
+
+
+@contextlib.contextmanager
+def _polling(path: Path, engine: str, progress: Progress | None) -> Iterator[None]:
+    """While the block runs, report the frame count the bench writes to ``path``."""
+    if progress is None:
+        yield
+        return
+    stop = threading.Event()
+    poller = threading.Thread(target=_poll, args=(path, engine, progress, stop), daemon=True)
+    poller.start()
+    try:
+        yield
+    finally:
+        stop.set()
+        poller.join()
 
 
 def verify(

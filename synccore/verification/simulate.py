@@ -23,7 +23,7 @@ from pathlib import Path
 from synccore.emit.bench.harness import HARNESS_TOP, render_harness
 from synccore.emit.files import core_artifacts
 from synccore.spec import Spec, to_dict
-from synccore.verification.tools import INSTALL_HINT, build_env, find
+from synccore.verification.tools import INSTALL_HINT, Tool, build_env, find
 
 VHDL_STANDARDS = {"93": "--std=93", "08": "--std=08"}
 _GENERIC = {"events": "events_path", "stop": "stop_at"}
@@ -106,7 +106,6 @@ def run_bench(
     ``harness_args`` go to the harness as plusargs ``+synccore_<name>=<value>`` (Verilog) or
     generics (VHDL).
     """
-    from cocotb_tools.check_results import get_results
     from cocotb_tools.runner import get_runner
 
     tool = find(simulator)
@@ -115,31 +114,10 @@ def run_bench(
     language = tool.languages[0]
     files = _sources(spec, language, harness, core_text)
     top = HARNESS_TOP if harness else spec.name
-    build_args: list[str] = []
-    test_args: list[str] = []
-    plusargs: list[str] = []
-    parameters: dict[str, object] = {}
-    for name, value in (harness_args or {}).items():
-        if language == "verilog":
-            plusargs.append(f"+synccore_{name}={value}")
-        else:
-            parameters[_GENERIC[name]] = value
-    if simulator == "ghdl":
-        build_args = test_args = [VHDL_STANDARDS[vhdl_std]]
-    elif simulator == "verilator" and harness:
-        build_args = list(VERILATOR_ARGS)
-    key = hashlib.sha256(
-        json.dumps([simulator, build_args, waves, top, sorted(files.items())]).encode()
-    ).hexdigest()[:24]
-    # Wave files land in the build folder: a run that records them builds privately.
-    build_dir = run_dir / "build" if waves else cache_dir() / f"{simulator}-{key}"
-
-    run_dir.mkdir(parents=True, exist_ok=True)
-    spec_json = run_dir / "spec.json"
-    spec_json.write_text(json.dumps(to_dict(spec)))
-    extra = build_env(tool, cache_dir())
-    extra.update(env or {})
-    extra["SYNCCORE_SPEC_JSON"] = str(spec_json)
+    args = _arguments(simulator, language, harness=harness, vhdl_std=vhdl_std,
+                      harness_args=harness_args or {})  # fmt: skip
+    build_dir = _build_dir(simulator, args, waves=waves, top=top, files=files, run_dir=run_dir)
+    extra = _run_environment(spec, tool, run_dir, env or {})
     bench_dir = str(sim_dir())
     if bench_dir not in sys.path:
         sys.path.insert(0, bench_dir)
@@ -149,34 +127,100 @@ def run_bench(
 
     with _environ(extra):
         runner = get_runner(simulator)
-        _build(runner, build_dir, files, top, build_args, waves)
-        # GHDL keeps its work library in the build folder and must run there.
-        test_dir = build_dir if simulator == "ghdl" else run_dir
-        # The runner judges results itself (and exits) when it sees pytest; we judge them
-        # here, the same way from the command line and from the tests.
-        pytest_test = os.environ.pop("PYTEST_CURRENT_TEST", None)
-        try:
-            with locked(build_dir) if simulator == "ghdl" else contextlib.nullcontext():
-                runner.test(
-                    test_module=bench,
-                    hdl_toplevel=top,
-                    hdl_toplevel_lang=language,
-                    build_dir=build_dir,
-                    test_dir=test_dir,
-                    test_args=test_args,
-                    extra_env=extra,
-                    timescale=("1ns", "1ps"),
-                    log_file=log,
-                    results_xml=str(results.resolve()),
-                    waves=waves,
-                    plusargs=plusargs,
-                    parameters=parameters,
-                )
-        except SystemExit:
-            pass  # the simulator exited non-zero; the results file (if any) says more
-        finally:
-            if pytest_test is not None:
-                os.environ["PYTEST_CURRENT_TEST"] = pytest_test
+        _build(runner, build_dir, files, top, args.build, waves)
+        _test(runner, simulator=simulator, bench=bench, top=top, language=language,
+              build_dir=build_dir, run_dir=run_dir, args=args, extra=extra, log=log,
+              results=results, waves=waves)  # fmt: skip
+    return _verdict(results, log, run_dir, build_dir)
+
+
+@dataclass(frozen=True)
+class _Arguments:
+    """What the runner passes to the simulator, and the harness settings in its language's form."""
+
+    build: list[str]
+    test: list[str]
+    plusargs: list[str]  # Verilog: +synccore_<name>=<value>
+    parameters: dict[str, object]  # VHDL: generics
+
+
+def _arguments(simulator: str, language: str, *, harness: bool, vhdl_std: str,
+               harness_args: dict[str, str | int]) -> _Arguments:  # fmt: skip
+    plusargs: list[str] = []
+    parameters: dict[str, object] = {}
+    for name, value in harness_args.items():
+        if language == "verilog":
+            plusargs.append(f"+synccore_{name}={value}")
+        else:
+            parameters[_GENERIC[name]] = value
+    build_args: list[str] = []
+    test_args: list[str] = []
+    if simulator == "ghdl":
+        build_args = test_args = [VHDL_STANDARDS[vhdl_std]]
+    elif simulator == "verilator" and harness:
+        build_args = list(VERILATOR_ARGS)
+    return _Arguments(build_args, test_args, plusargs, parameters)
+
+
+def _build_dir(simulator: str, args: _Arguments, *, waves: bool, top: str,
+               files: dict[str, str], run_dir: Path) -> Path:  # fmt: skip
+    """The build folder: in the cache, named by the hash of everything that goes into the build."""
+    key = hashlib.sha256(
+        json.dumps([simulator, args.build, waves, top, sorted(files.items())]).encode()
+    ).hexdigest()[:24]
+    # Wave files land in the build folder: a run that records them builds privately.
+    return run_dir / "build" if waves else cache_dir() / f"{simulator}-{key}"
+
+
+def _run_environment(spec: Spec, tool: Tool, run_dir: Path, env: Mapping[str, str]
+                     ) -> dict[str, str]:  # fmt: skip
+    """The variables the run sees: the tool's, the caller's, and where the spec is (as JSON)."""
+    run_dir.mkdir(parents=True, exist_ok=True)
+    spec_json = run_dir / "spec.json"
+    spec_json.write_text(json.dumps(to_dict(spec)))
+    extra = build_env(tool, cache_dir())
+    extra.update(env)
+    extra["SYNCCORE_SPEC_JSON"] = str(spec_json)
+    return extra
+
+
+def _test(runner: object, *, simulator: str, bench: str, top: str, language: str,
+          build_dir: Path, run_dir: Path, args: _Arguments, extra: dict[str, str], log: Path,
+          results: Path, waves: bool) -> None:  # fmt: skip
+    """Run ``bench`` on the built ``top``; the verdict is left in the ``results`` file."""
+    # GHDL keeps its work library in the build folder and must run there.
+    test_dir = build_dir if simulator == "ghdl" else run_dir
+    # The runner judges results itself (and exits) when it sees pytest; we judge them
+    # here, the same way from the command line and from the tests.
+    pytest_test = os.environ.pop("PYTEST_CURRENT_TEST", None)
+    try:
+        with locked(build_dir) if simulator == "ghdl" else contextlib.nullcontext():
+            runner.test(  # type: ignore[attr-defined]
+                test_module=bench,
+                hdl_toplevel=top,
+                hdl_toplevel_lang=language,
+                build_dir=build_dir,
+                test_dir=test_dir,
+                test_args=args.test,
+                extra_env=extra,
+                timescale=("1ns", "1ps"),
+                log_file=log,
+                results_xml=str(results.resolve()),
+                waves=waves,
+                plusargs=args.plusargs,
+                parameters=args.parameters,
+            )
+    except SystemExit:
+        pass  # the simulator exited non-zero; the results file (if any) says more
+    finally:
+        if pytest_test is not None:
+            os.environ["PYTEST_CURRENT_TEST"] = pytest_test
+
+
+def _verdict(results: Path, log: Path, run_dir: Path, build_dir: Path) -> SimResult:
+    """The counts of the results file; one failure when the run left none."""
+    from cocotb_tools.check_results import get_results
+
     if not results.is_file():
         return SimResult(0, 1, log, run_dir, build_dir)
     tests, failed = get_results(results)

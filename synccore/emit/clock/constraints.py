@@ -22,7 +22,7 @@ from fractions import Fraction
 
 from synccore.clocking.plan import ClockPlan
 from synccore.emit._jinja import environment
-from synccore.emit.clock.pll import build_clock_context, header_lines
+from synccore.emit.clock.wrapper import build_clock_context, header_lines
 from synccore.units import fixed, hz
 
 XDC_FAMILIES = ("xc7-mmcm", "xc7-pll")

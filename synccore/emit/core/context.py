@@ -89,11 +89,10 @@ class CoreContext:
         return self.y_lsb + self.y_width - 1
 
 
-def build_context(t: Timing) -> CoreContext:
+def _constants(t: Timing) -> tuple[Constant, ...]:
+    """The core's named constants: counter terminal counts, sync edges, sync levels."""
     spec = t.spec
     core = spec.core
-    p = spec.port_prefix
-    reset_base = "rst_n" if core.reset.endswith("_low") else "rst"
     hw, vw = t.h_width, t.v_width
     lead_h, lead_v = t.lead_reset
     consts = [
@@ -123,7 +122,15 @@ def build_context(t: Timing) -> CoreContext:
                  f"vsync level during the pulse ({spec.vertical.sync_polarity})", True),
         Constant("V_SYNC_OFF", 1 - t.vsync_active_level, 1, "vsync level outside the pulse", True),
     ]  # fmt: skip
+    return tuple(consts)
 
+
+def _ports(t: Timing) -> tuple[Port, ...]:
+    """The core's ports in their emitted order, with the prefix and a comment each."""
+    spec = t.spec
+    core = spec.core
+    p = spec.port_prefix
+    reset_base = "rst_n" if core.reset.endswith("_low") else "rst"
     reset_comment = {
         "sync_high": "synchronous reset, active high",
         "sync_low": "synchronous reset, active low",
@@ -154,15 +161,22 @@ def build_context(t: Timing) -> CoreContext:
         Port("frame_start", p + "frame_start", "out", None,
              "1 on the first active pixel of a frame"),
     ]  # fmt: skip
+    return tuple(ports)
 
+
+def build_context(t: Timing) -> CoreContext:
+    """The context of ``t``'s core: header, constants, ports and the flags templates branch on."""
+    spec = t.spec
+    core = spec.core
+    ports = _ports(t)
     return CoreContext(
         name=spec.name,
         header=tuple(header_lines(t)),
-        constants=tuple(consts),
-        ports=tuple(ports),
+        constants=_constants(t),
+        ports=ports,
         port={port.base: port.name for port in ports},
-        h_width=hw,
-        v_width=vw,
+        h_width=t.h_width,
+        v_width=t.v_width,
         x_width=t.x_width,
         y_width=t.y_width,
         has_ce=core.clock_enable,

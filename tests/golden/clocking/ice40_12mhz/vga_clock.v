@@ -27,10 +27,10 @@ module vga_clock (
     // ------------------------------------------------------------------
     SB_PLL40_CORE #(
         .FEEDBACK_PATH("SIMPLE"),  // feedback from the VCO
-        .DIVR(4'b0000),            // input divider 1
-        .DIVF(7'b1000010),         // feedback multiplier 67
-        .DIVQ(3'b101),             // output divider 32
-        .FILTER_RANGE(3'b001)      // loop filter for a 12.000 MHz PFD (TN1251)
+        .DIVR(4'd0),               // input divider 1
+        .DIVF(7'd66),              // feedback multiplier 67
+        .DIVQ(3'd5),               // output divider 32
+        .FILTER_RANGE(3'd1)        // loop filter for a 12.000 MHz PFD (TN1251)
     ) pll (
         .REFERENCECLK(clk_in),    // board clock
         .PLLOUTGLOBAL(clk_core),  // core clock, global net
