@@ -9,7 +9,6 @@ line on stderr, naming the option, and exit status 2.
 from __future__ import annotations
 
 import json
-import sys
 from collections.abc import Callable
 from fractions import Fraction
 from typing import Any, TypeVar
@@ -19,12 +18,12 @@ from rich.console import Console
 from rich.markup import escape
 
 from synccore.api import plan_clock
+from synccore.cli._common import console, fail, load_spec
 from synccore.clocking import FAMILY_KEYS
 from synccore.clocking.plan import ClockPlan
 from synccore.clocking.report import adjustment_facts, plan_dict, plan_facts, ppm_text, route_text
-from synccore.errors import SpecError, ToolError
+from synccore.errors import ToolError
 from synccore.spec import Spec
-from synccore.timings import load
 from synccore.units import fixed
 
 F = TypeVar("F", bound=Callable[..., Any])
@@ -32,12 +31,6 @@ F = TypeVar("F", bound=Callable[..., Any])
 
 class BadOption(Exception):
     """An option value that cannot be used; its text is the one line shown to the user."""
-
-
-def _exit(lines: list[str]) -> None:
-    for line in lines:
-        click.echo(line, err=True)
-    sys.exit(2)
 
 
 def board_options(func: F) -> F:
@@ -97,37 +90,36 @@ def build_plan(spec: Spec, board_clock: str | None, family: str | None,
     try:
         return plan_for(spec, board_clock, family, no_pll, strict=True)
     except BadOption as err:
-        _exit([str(err)])
-        raise AssertionError from err  # pragma: no cover - _exit exits
+        fail(str(err))
 
 
-def _print_facts(rows: list[tuple[str, str]], console: Console) -> None:
+def _print_facts(rows: list[tuple[str, str]], out: Console) -> None:
     # plain lines, never wrapped, so that scripts can grep them
     width = max(len(label) for label, _ in rows)
     for label, value in rows:
-        console.print(f"[bold]{escape(label.ljust(width))}[/bold]  {escape(value)}")
+        out.print(f"[bold]{escape(label.ljust(width))}[/bold]  {escape(value)}")
 
 
-def print_plan(plan: ClockPlan, console: Console) -> None:
+def print_plan(plan: ClockPlan, out: Console) -> None:
     """The plan, its runners-up and any suggested adjustment, as terminal text."""
-    _print_facts(plan_facts(plan), console)
+    _print_facts(plan_facts(plan), out)
     if len(plan.settings) > 1:
-        console.print("[bold]runners-up[/bold]")
+        out.print("[bold]runners-up[/bold]")
         for s in plan.settings[1:]:
-            console.print(f"  {escape(route_text(s))}  ({escape(ppm_text(s.ppm))})")
+            out.print(f"  {escape(route_text(s))}  ({escape(ppm_text(s.ppm))})")
     if plan.within_tolerance:
         return
     pct = fixed(plan.tolerance * 100, 1)
     if plan.best is None:
-        console.print("No setting reaches the core clock.")
+        out.print("No setting reaches the core clock.")
     else:
-        console.print(f"No setting is within +/-{pct} % of the pixel clock.")
+        out.print(f"No setting is within +/-{pct} % of the pixel clock.")
     if plan.adjustment is None:
-        console.print("No horizontal total within the porch bound (each porch +/-25 %) "
+        out.print("No horizontal total within the porch bound (each porch +/-25 %) "
                       "gives a reachable clock either.")  # fmt: skip
         return
-    console.print("Adjusting the horizontal total keeps line rate and refresh on target:")
-    _print_facts(adjustment_facts(plan), console)
+    out.print("Adjusting the horizontal total keeps line rate and refresh on target:")
+    _print_facts(adjustment_facts(plan), out)
 
 
 @click.command()
@@ -137,21 +129,16 @@ def print_plan(plan: ClockPlan, console: Console) -> None:
 def clock(spec: str, board_clock: str | None, family: str | None, no_pll: bool,
           as_json: bool) -> None:  # fmt: skip
     """Plan the core clock of SPEC from the board clock: PLL settings or a clock enable."""
-    try:
-        s = load(spec)
-    except SpecError as err:
-        _exit([str(p) for p in err.problems])
-        return
+    s = load_spec(spec)
     try:
         plan = plan_for(s, board_clock, family, no_pll, strict=False)
     except BadOption as err:
-        _exit([str(err)])
-        return
+        fail(str(err))
     if as_json:
         click.echo(json.dumps(plan_dict(plan), indent=2))
         return
-    console = Console(highlight=False, soft_wrap=True)
-    print_plan(plan, console)
+    out = console()
+    print_plan(plan, out)
     if plan.family is None and plan.enable is not None and plan.enable.divide > 1:
         if not s.core.clock_enable:
-            console.print("Note: set core.clock_enable: true in the spec to use this route.")
+            out.print("Note: set core.clock_enable: true in the spec to use this route.")

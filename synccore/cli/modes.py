@@ -8,27 +8,22 @@ from __future__ import annotations
 
 import json
 import re
-import sys
 from decimal import Decimal
 from fractions import Fraction
 from pathlib import Path
+from typing import NoReturn
 
 import click
-from rich.console import Console
 from rich.table import Table
 
+from synccore.cli._common import FAILED, console, fail
 from synccore.spec import Axis, parse_frequency
 from synccore.timings import formulas, modeline, modes
 from synccore.units import fixed, hz, in_unit
 
 
-def _console() -> Console:
-    return Console(highlight=False, soft_wrap=True)
-
-
-def _bad(message: str) -> None:
-    click.echo(f"synccore: {message}", err=True)
-    sys.exit(2)
+def _bad(message: str) -> NoReturn:
+    fail(f"synccore: {message}")
 
 
 @click.command("modes")
@@ -55,8 +50,7 @@ def modes_command(filter_words: tuple[str, ...], max_clock: str | None,
         click.echo(json.dumps([m.as_spec_keys() for m in found], indent=2))
         return
     if not found:
-        click.echo("no library entry matches", err=True)
-        sys.exit(1)
+        fail("no library entry matches", code=FAILED)
     table = Table(title_justify="left")
     for head, right in (("mode", False), ("refresh Hz", True), ("pixel clock", True),
                         ("line rate kHz", True), ("TMDS bit rate", True), ("source", False),
@@ -66,9 +60,9 @@ def modes_command(filter_words: tuple[str, ...], max_clock: str | None,
         table.add_row(m.name, fixed(m.refresh_hz, 3), hz(m.pixel_clock_hz),
                       in_unit(m.line_rate_hz, "kHz"), _bits(m.tmds_bit_rate),
                       m.source + (f" = {', '.join(m.also)}" if m.also else ""), m.note)  # fmt: skip
-    console = _console()
-    console.width = max(console.width, 140)  # one row per mode, even in a narrow pipe
-    console.print(table)
+    out = console()
+    out.width = max(out.width, 140)  # one row per mode, even in a narrow pipe
+    out.print(table)
 
 
 def _bits(rate: Fraction) -> str:

@@ -2,18 +2,16 @@
 
 from __future__ import annotations
 
-import sys
 import tempfile
 from pathlib import Path
 from typing import TYPE_CHECKING
 
 import click
-from rich.console import Console
 from rich.table import Table
 
+from synccore.cli._common import FAILED, console, fail, fail_spec, load_spec
 from synccore.errors import SpecError
 from synccore.spec import Spec
-from synccore.timings import load
 
 if TYPE_CHECKING:  # the picture modules load numpy and Pillow: only when the command runs
     from synccore.picture.monitor import Monitor
@@ -67,9 +65,7 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     mon = watch(pins, monitor_range=rng)
     _show(mon, title, Path(out_png or f"{name}_view.png"))
     if mon.problems:
-        for problem in mon.problems:
-            click.echo(f"PROBLEM {problem}", err=True)
-        sys.exit(1)
+        fail((f"PROBLEM {problem}" for problem in mon.problems), code=FAILED)
 
 
 def _monitor_range(text: str | None) -> tuple[tuple[float, float], tuple[float, float]] | None:
@@ -93,24 +89,17 @@ def _pins_from_vcd(vcd: str, mapping: str | None) -> Pins:
     try:
         return read(vcd, parse_map(mapping))
     except VcdError as err:
-        click.echo(str(err), err=True)
-        sys.exit(2)
+        fail(str(err))
 
 
 def _load(spec: str) -> Spec:
     """The spec, if it loads and its first-light pattern can be drawn; exit 2 otherwise."""
     from synccore.model.pattern import pattern_problems
 
-    try:
-        s = load(spec)
-    except SpecError as err:
-        for p in err.problems:
-            click.echo(str(p), err=True)
-        sys.exit(2)
+    s = load_spec(spec)
     problems = pattern_problems(s)
     if problems:
-        click.echo(str(SpecError(problems)), err=True)  # every problem, one line each
-        sys.exit(2)
+        fail_spec(SpecError(problems))
     return s
 
 
@@ -124,22 +113,21 @@ def _simulate(s: Spec, pattern: str, engine: str, work_dir: str | None) -> Pins:
         with tempfile.TemporaryDirectory(prefix="synccore-view-") as tmp:
             return simulate(s, pattern, engine=engine, work_dir=Path(tmp))
     except ViewError as err:
-        click.echo(str(err), err=True)
-        sys.exit(2)
+        fail(str(err))
 
 
 def _show(mon: Monitor, title: str, target: Path) -> None:
     """The monitor's summary table and notes, the PNG of the visible frame, the caution."""
-    console = Console(highlight=False, soft_wrap=True)
+    out = console()
     table = Table(title=f"simulated monitor: {title}", title_justify="left", show_header=False)
     table.add_column(style="bold")
     table.add_column()
     for label, value in mon.summary():
         table.add_row(label, value)
-    console.print(table)
+    out.print(table)
     for note in mon.notes:
-        console.print(f"note: {note}")
+        out.print(f"note: {note}")
     if mon.image is not None:
         mon.image.save(target)
-        console.print(f"wrote {target}")
-    console.print(MONITOR_CAUTION, style="dim")
+        out.print(f"wrote {target}")
+    out.print(MONITOR_CAUTION, style="dim")

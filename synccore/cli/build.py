@@ -1,0 +1,64 @@
+"""``synccore build``: validate a spec and write its files (core, benches, pattern, clock)."""
+
+from __future__ import annotations
+
+import click
+
+from synccore.api import write
+from synccore.cli._common import console, fail, fail_spec, load_spec
+from synccore.cli.clock import board_options, build_plan, print_plan
+from synccore.cli.show import print_summary
+from synccore.cli.verify import run_verify
+from synccore.errors import SpecError, ToolError
+from synccore.model.pattern import PATTERNS
+
+HARDWARE_CAUTION = (
+    "Hardware: match the FPGA bank's I/O voltage to what the display input accepts "
+    "(VGA syncs are TTL-level, VGA colour is 0-0.7 V into 75 ohm); check the parts' "
+    "datasheets before wiring. See the README, 'Hardware cautions'."
+)
+
+
+@click.command()
+@click.argument("spec", type=click.Path(dir_okay=False))
+@click.option("--out", "-o", "out_dir", required=True, type=click.Path(file_okay=False),
+              help="Folder for the generated files (created if missing).")
+@click.option("--force", is_flag=True,
+              help="Overwrite files in the folder even if synccore did not generate them.")
+@click.option("--clock", "with_clock", is_flag=True,
+              help="Also write the clock wrapper OUT/<name>_clock.v/.vhd and its constraints.")
+@board_options
+@click.option("--testbench", "with_testbench", is_flag=True,
+              help="Also write self-checking test benches OUT/<name>_tb.v and OUT/<name>_tb.vhd.")
+@click.option("--verify", "then_verify", is_flag=True,
+              help="Then run the core in every simulator found and measure it (see `verify`).")
+@click.option("--pattern", type=click.Choice(PATTERNS), default=None,
+              help="Also write a test-pattern generator and a first-light top level "
+                   "(OUT/<name>_pattern.*, OUT/<name>_top.*).")
+def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: str | None,
+          family: str | None, no_pll: bool, with_testbench: bool, then_verify: bool,
+          pattern: str | None) -> None:  # fmt: skip
+    """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
+    s = load_spec(spec)
+    out = console(wide_pipe=True)
+    if not with_clock and (board_clock or family or no_pll):
+        fail("--board-clock, --family and --no-pll need --clock")
+    plan = build_plan(s, board_clock, family, no_pll) if with_clock else None
+    try:
+        written = write(s, out_dir, testbench=with_testbench, pattern=pattern, clock=plan,
+                        force=force)  # fmt: skip
+    except SpecError as err:
+        fail_spec(err)
+    except ToolError as err:
+        fail(str(err))
+    print_summary(s, out)
+    if plan is not None:
+        print_plan(plan, out)
+    for path in written:
+        out.print(f"wrote {path}")
+    if pattern is not None:
+        out.print(f"first-light design: synthesise {s.name}_top (pattern {pattern}); "
+                      f"see it first with `synccore view {spec} --pattern {pattern}`")  # fmt: skip
+    out.print(HARDWARE_CAUTION, style="dim")
+    if then_verify:
+        run_verify(s, engines=None, frames=2, waves=False, work_dir=None, out=out)

@@ -1,0 +1,67 @@
+"""``synccore show`` and ``synccore schema``: a timing's summary, the format's JSON Schema."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import click
+from rich.console import Console
+from rich.table import Table
+
+from synccore.cli._common import console, fail, load_spec
+from synccore.model import Timing
+from synccore.model.report import figures, options, timing_table
+from synccore.spec import Spec
+from synccore.spec.schema import json_schema
+from synccore.timings.modeline import format_line
+
+
+def print_summary(spec: Spec, console: Console) -> None:
+    """The timing table and derived figures of a spec, as terminal tables."""
+    t = Timing(spec)
+    rows = timing_table(t)
+    table = Table(title=f"{spec.name}  ({spec.source})", title_justify="left")
+    for i, head in enumerate(rows[0]):
+        table.add_column(head, justify="left" if i == 0 else "right")
+    for row in rows[1:]:
+        table.add_row(*row)
+    console.print(table)
+    facts = Table(show_header=False, box=None, pad_edge=False)
+    facts.add_column(style="bold")
+    facts.add_column()
+    origin = [("timing from", spec.origin)] if spec.origin else []
+    origin += [("note", n) for n in spec.notes]
+    for label, value in origin + figures(t) + options(t):
+        facts.add_row(label, value)
+    console.print(facts)
+
+
+@click.command()
+@click.argument("spec", type=click.Path(dir_okay=False))
+@click.option("--modeline", "as_modeline", is_flag=True,
+              help="Print the timing as one X.Org modeline instead of the summary.")
+@click.option("--diagram", type=click.Path(dir_okay=False),
+              help="Also draw the horizontal and vertical timing to scale into this .svg or .png.")
+def show(spec: str, as_modeline: bool, diagram: str | None) -> None:
+    """Validate SPEC and print its timing summary; writes nothing unless --diagram is given."""
+    s = load_spec(spec)
+    if diagram is not None:
+        from synccore.picture.diagram import draw
+
+        if Path(diagram).suffix.lower() not in (".svg", ".png"):
+            fail(f"--diagram must name a .svg or .png file, got {diagram!r}")
+        draw(s, diagram)
+    if as_modeline:
+        click.echo(format_line(s.name, s.pixel_clock_hz, s.horizontal, s.vertical))
+        return
+    print_summary(s, console(wide_pipe=True))
+    if diagram is not None:
+        console(wide_pipe=True).print(f"wrote {diagram}")
+
+
+@click.command()
+def schema() -> None:
+    """Print the JSON Schema of the timing description format."""
+    click.echo(json.dumps(json_schema(), indent=2))
+
