@@ -21,10 +21,8 @@ import cocotb
 from cocotb.clock import Clock
 from cocotb.triggers import FallingEdge, ReadOnly, RisingEdge
 
-from synccore.model import Outputs, Timing
+from synccore.model import RESET_CYCLES, Outputs, Timing, reset_port
 from synccore.spec import from_dict
-
-RESET_CYCLES = 3
 
 
 def _read(dut, prefix: str) -> Outputs:
@@ -44,11 +42,11 @@ async def port_contract(dut):
     cycles = int(os.environ.get("SYNCCORE_CYCLES", t.frame_cycles + 2 * t.h_total))
     rng = random.Random(int(os.environ.get("SYNCCORE_SEED", "1")))
     clk = getattr(dut, p + "clk")
-    low = core.reset.endswith("_low")
-    rst = getattr(dut, p + ("rst_n" if low else "rst"))
+    reset = reset_port(core.reset)
+    rst = getattr(dut, p + reset.base)
     ce = getattr(dut, p + "ce") if core.clock_enable else None
 
-    rst.value = 0 if low else 1
+    rst.value = reset.active
     if ce is not None:
         ce.value = 1
     Clock(clk, 10, unit="ns").start()
@@ -64,7 +62,7 @@ async def port_contract(dut):
     mismatches = []
     for cycle in range(cycles):
         await FallingEdge(clk)
-        rst.value = 1 if low else 0
+        rst.value = 1 - reset.active
         enable = True
         if ce is not None:
             enable = rng.random() < 0.6

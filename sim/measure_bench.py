@@ -19,9 +19,8 @@ from pathlib import Path
 import cocotb
 from cocotb.triggers import First, RisingEdge, Timer
 
-from synccore.model import Timing
+from synccore.model import Timing, stop_count
 from synccore.spec import from_dict
-from synccore.verification.measure import stop_count
 
 CLOCK_NS = 10
 WORST_CE_SHARE = 0.25  # far below the harness's clock-enable share (3 of 4 cycles)

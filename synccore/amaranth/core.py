@@ -23,10 +23,8 @@ from amaranth.lib import wiring
 from amaranth.lib.wiring import In, Out
 from amaranth.sim import Simulator
 
-from synccore.emit.bench.harness import LFSR_SEED
-from synccore.model import Timing
+from synccore.model import LFSR_SEED, MONITOR_FIELDS, Event, Timing, decode, stop_count
 from synccore.spec import Spec
-from synccore.verification.measure import MONITOR_FIELDS, Event, decode, stop_count
 
 
 class SyncCore(wiring.Component):  # type: ignore[misc]
@@ -34,16 +32,17 @@ class SyncCore(wiring.Component):  # type: ignore[misc]
 
     def __init__(self, spec: Spec) -> None:
         self.timing = t = Timing(spec)
+        r = t.reset_outputs()
         members = {
-            "hsync": Out(1, init=1 - t.hsync_active_level),
-            "vsync": Out(1, init=1 - t.vsync_active_level),
-            "de": Out(1),
-            "hblank": Out(1, init=1),
-            "vblank": Out(1, init=1),
-            "x": Out(t.x_width),
-            "y": Out(t.y_width),
-            "line_start": Out(1),
-            "frame_start": Out(1),
+            "hsync": Out(1, init=r.hsync),
+            "vsync": Out(1, init=r.vsync),
+            "de": Out(1, init=r.de),
+            "hblank": Out(1, init=r.hblank),
+            "vblank": Out(1, init=r.vblank),
+            "x": Out(t.x_width, init=r.x),
+            "y": Out(t.y_width, init=r.y),
+            "line_start": Out(1, init=r.line_start),
+            "frame_start": Out(1, init=r.frame_start),
         }
         if spec.core.clock_enable:
             members["ce"] = In(1)
@@ -59,12 +58,13 @@ class SyncCore(wiring.Component):  # type: ignore[misc]
         v_lead = Signal(t.v_width, init=lead_v)
         advance = self.ce if t.spec.core.clock_enable else Const(1)
         on_h, on_v = t.hsync_active_level, t.vsync_active_level
+        off_h, off_v = t.hsync_inactive_level, t.vsync_inactive_level
 
         with m.If(advance):
             for h, v in ((h_pos, v_pos), (h_lead, v_lead)):
-                with m.If(h == t.h_total - 1):
+                with m.If(h == t.h_last):
                     m.d.sync += h.eq(0)
-                    with m.If(v == t.v_total - 1):
+                    with m.If(v == t.v_last):
                         m.d.sync += v.eq(0)
                     with m.Else():
                         m.d.sync += v.eq(v + 1)
@@ -82,12 +82,12 @@ class SyncCore(wiring.Component):  # type: ignore[misc]
             with m.If(h_pos == t.h_sync_start):
                 m.d.sync += self.hsync.eq(on_h)
             with m.Elif(h_pos == t.h_sync_end):
-                m.d.sync += self.hsync.eq(1 - on_h)
+                m.d.sync += self.hsync.eq(off_h)
             with m.If(h_pos == t.v_sync_at_h):
                 with m.If(v_pos == t.v_sync_start):
                     m.d.sync += self.vsync.eq(on_v)
                 with m.Elif(v_pos == t.v_sync_end):
-                    m.d.sync += self.vsync.eq(1 - on_v)
+                    m.d.sync += self.vsync.eq(off_v)
             with m.If(h_lead < t.h_active):
                 m.d.sync += self.x.eq((h_lead * t.ppc) >> t.scale_shift)
             with m.Else():
@@ -120,7 +120,7 @@ class _Harness(Elaboratable):  # type: ignore[misc]
             advance = Const(1)
 
         adv = Signal(32)
-        lead = self.spec.core.lead
+        lead = t.lead  # the delay line stands for a pixel pipeline of that latency
         x_d, y_d = Signal(16), Signal(16)
         if lead:
             x_pipe = Array(Signal(t.x_width, name=f"x_pipe{i}") for i in range(lead))
@@ -143,7 +143,7 @@ class _Harness(Elaboratable):  # type: ignore[misc]
                 x_bad = x_d != prev_x + t.x_step
             else:  # scaled: x holds for a few cycles, then grows by one
                 x_bad = (x_d != prev_x) & (x_d != prev_x + 1)
-            with m.If((adv > lead + 1) & core.de & prev_de & (x_bad | (y_d != prev_y))):
+            with m.If((adv > t.xy_steps_judged_after) & core.de & prev_de & (x_bad | (y_d != prev_y))):
                 m.d.sync += step_faults.eq(step_faults + 1)
             m.d.sync += [prev_de.eq(core.de), prev_x.eq(x_d), prev_y.eq(y_d)]
             with m.If(core.de):

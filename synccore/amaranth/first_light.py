@@ -28,8 +28,8 @@ class FirstLight(Elaboratable):  # type: ignore[misc]
         self.ctx: PatternContext = pattern_context(spec, pattern)
         t = Timing(spec)
         self.core = SyncCore(spec)
-        self.hsync = Signal(init=1 - t.hsync_active_level)
-        self.vsync = Signal(init=1 - t.vsync_active_level)
+        self.hsync = Signal(init=t.hsync_inactive_level)
+        self.vsync = Signal(init=t.vsync_inactive_level)
         self.de = Signal()
         self.colour = [Signal(ch.bits, name=ch.base) for ch in self.ctx.channels]
         self.cycle = Signal(32)

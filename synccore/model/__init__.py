@@ -1,5 +1,34 @@
-"""Stage 3: the timing model, the one oracle every emitter, bench and test relies on."""
+"""Stage 3: the timing model, the one oracle every emitter, bench and test relies on.
 
+:class:`Timing` holds every timing rule; :mod:`synccore.model.contract` names the
+conventions the benches, the measurement and the Amaranth engine share.
+"""
+
+from synccore.model.contract import (
+    LFSR_SEED,
+    MONITOR_FIELDS,
+    RESET_CYCLES,
+    Event,
+    ResetPort,
+    decode,
+    parse_events,
+    reset_port,
+    stop_count,
+)
 from synccore.model.timing import Outputs, Timing, bits_for, timing
 
-__all__ = ["Outputs", "Timing", "bits_for", "timing"]
+__all__ = [
+    "LFSR_SEED",
+    "MONITOR_FIELDS",
+    "RESET_CYCLES",
+    "Event",
+    "Outputs",
+    "ResetPort",
+    "Timing",
+    "bits_for",
+    "decode",
+    "parse_events",
+    "reset_port",
+    "stop_count",
+    "timing",
+]

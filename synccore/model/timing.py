@@ -19,8 +19,17 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from fractions import Fraction
+from typing import TYPE_CHECKING, overload
 
 from synccore.spec import Spec
+
+if TYPE_CHECKING:
+    import numpy as np
+    from numpy.typing import NDArray
+
+    Cycles = NDArray[np.int64]
+    """Many positions or columns at once: the same rules, applied element by element."""
+    Flags = NDArray[np.bool_]
 
 
 def bits_for(max_value: int) -> int:
@@ -76,13 +85,27 @@ class Timing:
         return self.h_active + self.h_front + self.h_sync + self.h_back
 
     @property
+    def h_last(self) -> int:
+        """Last cycle of a line: the column counter's terminal count."""
+        return self.h_total - 1
+
+    @property
     def h_sync_start(self) -> int:
+        """First cycle of the hsync pulse: the active cycles and the front porch come before it."""
         return self.h_active + self.h_front
+
+    @property
+    def h_sync_stop(self) -> int:
+        """One past the last cycle of the hsync pulse, not wrapped (``h_total`` when back porch is 0).
+
+        Column ``h`` of a line is in the pulse when ``h_sync_start <= h < h_sync_stop``.
+        """
+        return self.h_sync_start + self.h_sync
 
     @property
     def h_sync_end(self) -> int:
         """First cycle after the hsync pulse, wrapped into the line (0 when back porch is 0)."""
-        return (self.h_sync_start + self.h_sync) % self.h_total
+        return self.h_sync_stop % self.h_total
 
     @property
     def v_active(self) -> int:
@@ -93,13 +116,24 @@ class Timing:
         return self.spec.vertical.total
 
     @property
+    def v_last(self) -> int:
+        """Last line of a frame: the line counter's terminal count."""
+        return self.v_total - 1
+
+    @property
     def v_sync_start(self) -> int:
+        """First line of the vsync pulse: the active lines and the front porch come before it."""
         return self.spec.vertical.active + self.spec.vertical.front_porch
+
+    @property
+    def v_sync_stop(self) -> int:
+        """One past the last line of the vsync pulse, not wrapped (``v_total`` when back porch is 0)."""
+        return self.v_sync_start + self.spec.vertical.sync
 
     @property
     def v_sync_end(self) -> int:
         """First line after the vsync pulse, wrapped into the frame (0 when back porch is 0)."""
-        return (self.v_sync_start + self.spec.vertical.sync) % self.v_total
+        return self.v_sync_stop % self.v_total
 
     @property
     def v_sync_at_h(self) -> int:
@@ -120,13 +154,37 @@ class Timing:
     def frame_cycles(self) -> int:
         return self.h_total * self.v_total
 
+    def sync_span(self, axis: str) -> tuple[int, int]:
+        """Where the sync pulse of ``axis`` lies, in the spec's units, counted from the first active one.
+
+        ``"horizontal"``: (first pixel of hsync, one past its last pixel) within a line;
+        ``"vertical"``: (first line of vsync, one past its last line) within a frame.
+        """
+        if axis == "horizontal":
+            return self.h_sync_start * self.ppc, self.h_sync_stop * self.ppc
+        if axis == "vertical":
+            return self.v_sync_start, self.v_sync_stop
+        raise ValueError(f"axis must be 'horizontal' or 'vertical', got {axis!r}")
+
     @property
     def hsync_active_level(self) -> int:
+        """hsync's level during the pulse: 1 for positive polarity, 0 for negative."""
         return 1 if self.spec.horizontal.sync_polarity == "positive" else 0
 
     @property
+    def hsync_inactive_level(self) -> int:
+        """hsync's level outside the pulse, and during reset."""
+        return 1 - self.hsync_active_level
+
+    @property
     def vsync_active_level(self) -> int:
+        """vsync's level during the pulse: 1 for positive polarity, 0 for negative."""
         return 1 if self.spec.vertical.sync_polarity == "positive" else 0
+
+    @property
+    def vsync_inactive_level(self) -> int:
+        """vsync's level outside the pulse, and during reset."""
+        return 1 - self.vsync_active_level
 
     # ------------------------------------------------------------------ widths
     @property
@@ -165,11 +223,58 @@ class Timing:
         """How much x grows per cycle inside a de run; 0: it holds for some cycles, then grows by 1."""
         return self.ppc >> self.scale_shift
 
+    # -------------------------------------------------------------------- lead
+    @property
+    def lead(self) -> int:
+        """Cycles by which x/y run ahead of de and the syncs: the latency of the pixel
+        pipeline they are meant for (a colour made from x/y through that many registers meets de)."""
+        return self.spec.core.lead
+
     @property
     def lead_reset(self) -> tuple[int, int]:
-        """(column, line) in cycles of the position ``lead`` cycles after the first active pixel."""
-        lead = self.spec.core.lead
-        return lead % self.h_total, (lead // self.h_total) % self.v_total
+        """(column, line) in cycles of the position ``lead`` cycles after the first active pixel.
+
+        The lead-shifted position counter starts here after reset: x/y show it while de
+        shows position 0.
+        """
+        return self.lead_position(0)
+
+    @property
+    def reset_xy_pixels(self) -> int:
+        """Pixels of the first frame after reset that carry the reset coordinates (x = y = 0).
+
+        A pixel pipeline of latency ``lead`` still holds what it was fed during reset
+        for its first ``lead`` positions; position 0's own coordinates are 0, 0, so only
+        positions 1 .. lead - 1 are wrong: ``lead - 1`` of them (none when lead <= 1).
+        """
+        return max(0, self.lead - 1)
+
+    @property
+    def exact_xy_from(self) -> int:
+        """First position from which x/y, seen through a pixel pipeline of latency ``lead``,
+        are exact on every later position too: just after the last of the
+        :attr:`reset_xy_pixels` (0 when there are none)."""
+        return self.reset_xy_pixels + 1 if self.reset_xy_pixels else 0
+
+    @property
+    def xy_steps_judged_after(self) -> int:
+        """Advancing edges after which a bench can judge the steps of x/y through the pipeline.
+
+        Once ``n`` edges have passed the outputs show position ``n - 1``, and the step into
+        it from position ``n - 2`` is exact when ``n - 2 >= exact_xy_from``: a bench that has
+        counted ``n`` edges judges that step when ``n`` exceeds this figure.
+        """
+        return self.exact_xy_from + 1
+
+    def alignment_delays(self, stages: int) -> tuple[int, int]:
+        """(sync delay, colour delay) that line up a colour made from x/y by ``stages`` registers.
+
+        The colour leaves such a pipeline ``stages`` cycles after x/y, which lead de by
+        ``lead`` cycles: when the pipeline is the longer, hsync, vsync and de wait
+        ``stages - lead`` cycles for the colour; when the lead is the longer, the colour
+        waits ``lead - stages`` cycles for de. One of the two is always 0.
+        """
+        return max(0, stages - self.lead), max(0, self.lead - stages)
 
     # ------------------------------------------------------------------- rates
     @property
@@ -203,21 +308,12 @@ class Timing:
         """
         if q < 0:
             return self.reset_outputs()
-        h = q % self.h_total
-        v = (q // self.h_total) % self.v_total
-        h_on = self.h_sync_start <= h < self.h_sync_start + self.h_sync
-        # vsync pulses start at (v_sync_start, v_sync_at_h) of every frame and last
-        # `sync` lines; a pulse that would have begun before reset never shows.
-        first_start, pulse = self.vsync_first, self.vsync_cycles
-        if q < first_start:
-            v_on = False
-        else:
-            v_on = (q - first_start) % self.frame_cycles < pulse
-        hl, vl = self._position(q + self.spec.core.lead)
+        h, v = self.position(q)
+        hl, vl = self.lead_position(q)
         active_h, active_v = h < self.h_active, v < self.v_active
         return Outputs(
-            hsync=self.hsync_active_level if h_on else 1 - self.hsync_active_level,
-            vsync=self.vsync_active_level if v_on else 1 - self.vsync_active_level,
+            hsync=self.hsync_active_level if self.in_hsync(h) else self.hsync_inactive_level,
+            vsync=self.vsync_active_level if self.in_vsync(q) else self.vsync_inactive_level,
             de=int(active_h and active_v),
             hblank=int(not active_h),
             vblank=int(not active_v),
@@ -230,8 +326,8 @@ class Timing:
     def reset_outputs(self) -> Outputs:
         """What every output holds during reset."""
         return Outputs(
-            hsync=1 - self.hsync_active_level,
-            vsync=1 - self.vsync_active_level,
+            hsync=self.hsync_inactive_level,
+            vsync=self.vsync_inactive_level,
             de=0,
             hblank=1,
             vblank=1,
@@ -241,8 +337,42 @@ class Timing:
             frame_start=0,
         )
 
-    def _position(self, q: int) -> tuple[int, int]:
+    @overload
+    def position(self, q: int) -> tuple[int, int]: ...
+    @overload
+    def position(self, q: Cycles) -> tuple[Cycles, Cycles]: ...
+    def position(self, q: int | Cycles) -> tuple[int | Cycles, int | Cycles]:
+        """(column in cycles, line) of position ``q``: ``q`` cycles after a frame's first active pixel."""
         return q % self.h_total, (q // self.h_total) % self.v_total
+
+    @overload
+    def lead_position(self, q: int) -> tuple[int, int]: ...
+    @overload
+    def lead_position(self, q: Cycles) -> tuple[Cycles, Cycles]: ...
+    def lead_position(self, q: int | Cycles) -> tuple[int | Cycles, int | Cycles]:
+        """(column, line) whose coordinates x/y show while the other outputs show position ``q``:
+        the position ``lead`` cycles later."""
+        return self.position(q + self.lead)
+
+    @overload
+    def in_hsync(self, h: int) -> bool: ...
+    @overload
+    def in_hsync(self, h: Cycles) -> Flags: ...
+    def in_hsync(self, h: int | Cycles) -> bool | Flags:
+        """Whether column ``h`` of a line (in cycles) lies inside the hsync pulse."""
+        return (h >= self.h_sync_start) & (h < self.h_sync_stop)
+
+    @overload
+    def in_vsync(self, q: int) -> bool: ...
+    @overload
+    def in_vsync(self, q: Cycles) -> Flags: ...
+    def in_vsync(self, q: int | Cycles) -> bool | Flags:
+        """Whether position ``q`` (counted from reset) lies inside a vsync pulse.
+
+        Pulses start at (line v_sync_start, column v_sync_at_h) of every frame and last
+        ``vertical.sync`` lines; a pulse that would have begun before reset never shows.
+        """
+        return (q >= self.vsync_first) & ((q - self.vsync_first) % self.frame_cycles < self.vsync_cycles)
 
 
 def timing(spec: Spec) -> Timing:

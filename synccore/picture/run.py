@@ -1,6 +1,6 @@
 """Running the first-light design in a simulator and reading back its pins.
 
-The display bench (``templates/view_bench.*.j2``) makes the clock in HDL,
+The display bench (``templates/bench/view_bench.*.j2``) makes the clock in HDL,
 resets the top level, and writes one line to a file whenever hsync, vsync, de
 or a colour pin changes (sampled on the falling clock edge); Python reads the
 file after the run and never wakes per cycle.  The simulators run directly
@@ -9,9 +9,9 @@ file after the run and never wakes per cycle.  The simulators run directly
 
 Two engines need no HDL simulator: ``builtin`` simulates the Amaranth model of
 the design (:mod:`synccore.amaranth.first_light`) in Amaranth's simulator, and
-``model`` computes the pins straight from the timing model (the same numbers
-:func:`synccore.model.Timing.outputs_at` uses) and the pattern's Python
-definition, which is the quickest for large modes.
+``model`` computes the pins straight from the timing model (the same rules
+:func:`synccore.model.Timing.outputs_at` applies, over a whole run at once) and
+the pattern's Python definition, which is the quickest for large modes.
 """
 
 from __future__ import annotations
@@ -169,14 +169,10 @@ def model_pins(spec: Spec, pattern: str, cycles: int) -> Pins:
     """
     t = Timing(spec)
     q = np.arange(cycles, dtype=np.int64)
-    h = q % t.h_total
-    v = (q // t.h_total) % t.v_total
-    h_on = (h >= t.h_sync_start) & (h < t.h_sync_start + t.h_sync)
-    first = t.v_sync_start * t.h_total + t.v_sync_at_h
-    v_on = (q >= first) & (((q - first) % t.frame_cycles) < spec.vertical.sync * t.h_total)
+    h, v = t.position(q)
     de = (h < t.h_active) & (v < t.v_active)
-    hs = np.where(h_on, t.hsync_active_level, 1 - t.hsync_active_level)
-    vs = np.where(v_on, t.vsync_active_level, 1 - t.vsync_active_level)
+    hs = np.where(t.in_hsync(h), t.hsync_active_level, t.hsync_inactive_level)
+    vs = np.where(t.in_vsync(q), t.vsync_active_level, t.vsync_inactive_level)
     w, ht = picture_size(spec)
     table = np.array([[levels(pattern, x, y, w, ht, spec.color) for x in range(w)] for y in range(ht)],
                      dtype=np.int64)  # fmt: skip

@@ -15,18 +15,9 @@ from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from synccore.model import Timing
+from synccore.model import Event, Timing, parse_events, stop_count
 from synccore.spec import Spec
-from synccore.verification.measure import (
-    Event,
-    Figure,
-    Row,
-    compare,
-    failures,
-    measure,
-    parse_events,
-    stop_count,
-)
+from synccore.verification.measure import Figure, Row, compare, failures, measure
 from synccore.verification.tools import SIMULATORS, find
 
 ENGINES = (*SIMULATORS, "builtin")

@@ -1,7 +1,7 @@
 """Stage 5: measuring a running core from its signal edges, and judging it against the spec.
 
 A simulator (through the cocotb bench in ``sim/``) or the built-in engine records
-an :class:`Event` whenever hsync, vsync or de changes.  :func:`measure` turns
+an :class:`~synccore.model.Event` whenever hsync, vsync, de or a blank changes.  :func:`measure` turns
 the events into figures (widths, porches, polarities, ranges, strobe counts),
 :func:`expected` says what the reference model wants for each, and
 :func:`compare` lays both side by side.  The events carry the count of
@@ -13,71 +13,7 @@ from __future__ import annotations
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 
-from synccore.model import Timing
-
-# The monitored values, in the order of an event line (and least significant
-# field first where they are packed into one vector): (name, bits).
-MONITOR_FIELDS: tuple[tuple[str, int], ...] = (
-    ("adv", 32),  # advancing clock edges since reset
-    ("hsync", 1),
-    ("vsync", 1),
-    ("de", 1),
-    ("hblank", 1),
-    ("vblank", 1),
-    ("frame_start", 1),
-    ("line_start", 1),
-    ("x", 16),  # x delayed by the lead, so it lines up with de
-    ("y", 16),
-    ("x_last", 16),  # x on the last de cycle seen
-    ("step_faults", 16),  # cycles inside a de run where x did not advance by N or y changed
-    ("line_starts", 16),  # line_start pulses so far (modulo 2**16)
-    ("frame_starts", 16),
-)
-
-
-def stop_count(t: Timing, frames: int) -> int:
-    """Advancing edges a measurement runs for: the frames, plus two lines to see the next start."""
-    return frames * t.frame_cycles + 2 * t.h_total
-
-
-@dataclass(frozen=True)
-class Event:
-    """Every monitored value just after a change of hsync, vsync or de."""
-
-    adv: int
-    hsync: int
-    vsync: int
-    de: int
-    hblank: int
-    vblank: int
-    frame_start: int
-    line_start: int
-    x: int
-    y: int
-    x_last: int
-    step_faults: int
-    line_starts: int
-    frame_starts: int
-
-
-def parse_events(text: str) -> list[Event]:
-    """Events from a harness's event file: one line of integers per event, in field order."""
-    names = [name for name, _ in MONITOR_FIELDS]
-    out = []
-    for line in text.splitlines():
-        values = [int(v) for v in line.split()]
-        if len(values) == len(names):
-            out.append(Event(**dict(zip(names, values, strict=True))))
-    return out
-
-
-def decode(word: int) -> Event:
-    """Unpack one monitor vector read from the harness."""
-    values = {}
-    for name, bits in MONITOR_FIELDS:
-        values[name] = word & ((1 << bits) - 1)
-        word >>= bits
-    return Event(**values)
+from synccore.model import Event, Timing
 
 
 @dataclass(frozen=True)
@@ -160,92 +96,138 @@ def _pulses(events: Sequence[Event], name: str, active: int) -> list[tuple[int, 
     return pulses
 
 
-def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
-    """Figures measured from the events of a run of at least two frames."""
-    ppc = t.ppc
-    found: dict[str, set[object]] = {key: set() for key, _, _ in QUANTITIES}
+Found = dict[str, set[object]]
+"""The distinct values seen so far of each quantity, by key."""
 
-    de_runs = [(s, e) for s, e in _pulses(events, "de", 1) if e is not None]
-    if de_runs:
-        found["first_de"].add(de_runs[0][0])
-    # Polarity: a sync's idle level is the level it holds for most of the time de is high
-    # (vsync may overlap the first active line when the vertical back porch is 0).
-    h_idle = _idle_level(events, "hsync")
-    v_idle = _idle_level(events, "vsync")
-    h_active_level = 1 - min(h_idle) if len(h_idle) == 1 else t.hsync_active_level
-    v_active_level = 1 - min(v_idle) if len(v_idle) == 1 else t.vsync_active_level
-    hs = [(s, e) for s, e in _pulses(events, "hsync", h_active_level) if e is not None]
-    vs = [(s, e) for s, e in _pulses(events, "vsync", v_active_level) if e is not None]
 
-    for (s1, _), (s2, _) in zip(hs, hs[1:], strict=False):
-        found["hsync_period"].add((s2 - s1) * ppc)
-    for s, e in hs:
-        found["hsync_width"].add((e - s) * ppc)
-    rises = [s for s, _ in de_runs]
+@dataclass(frozen=True)
+class _Pulses:
+    """The pulses of a run that the figures are measured from, in advancing-edge counts."""
+
+    de_runs: list[tuple[int, int]]
+    hsyncs: list[tuple[int, int]]  # at the measured active level
+    vsyncs: list[tuple[int, int]]
+    hblanks: list[tuple[int, int | None]]  # the last one may still be open
+    line_starts: list[int]  # every line start, active or not: where hblank falls
+    line_total: int  # the most frequent line period in cycles; 0 when fewer than two lines seen
+
+    @property
+    def rises(self) -> list[int]:
+        return [s for s, _ in self.de_runs]
+
+
+def _closed(pulses: list[tuple[int, int | None]]) -> list[tuple[int, int]]:
+    return [(s, e) for s, e in pulses if e is not None]
+
+
+def _active_level(idle: set[int], fallback: int) -> int:
+    """The level a sync pulses to: the other one than its idle level, when that is clear."""
+    return 1 - min(idle) if len(idle) == 1 else fallback
+
+
+def _find_pulses(events: Sequence[Event], h_active_level: int, v_active_level: int) -> _Pulses:
     # Lines are told apart by hblank, which falls at every line start, active or not.
     hblanks = _pulses(events, "hblank", 1)
     line_starts = [e for _, e in hblanks if e is not None]
     periods = [b - a for a, b in zip(line_starts, line_starts[1:], strict=False)]
-    line_total = max(set(periods), key=periods.count) if periods else 0
-    found["line_total"].update(p * ppc for p in periods)
-    for b_start, b_end in hblanks:
+    return _Pulses(
+        de_runs=_closed(_pulses(events, "de", 1)),
+        hsyncs=_closed(_pulses(events, "hsync", h_active_level)),
+        vsyncs=_closed(_pulses(events, "vsync", v_active_level)),
+        hblanks=hblanks,
+        line_starts=line_starts,
+        line_total=max(set(periods), key=periods.count) if periods else 0,
+    )
+
+
+def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
+    """Figures measured from the events of a run of at least two frames."""
+    found: Found = {key: set() for key, _, _ in QUANTITIES}
+    # Polarity: a sync's idle level is the level it holds for most of the time de is high
+    # (vsync may overlap the first active line when the vertical back porch is 0).
+    h_idle = _idle_level(events, "hsync")
+    v_idle = _idle_level(events, "vsync")
+    p = _find_pulses(events, _active_level(h_idle, t.hsync_active_level),
+                     _active_level(v_idle, t.vsync_active_level))  # fmt: skip
+    if p.de_runs:
+        found["first_de"].add(p.de_runs[0][0])
+    _measure_lines(found, events, p, t.ppc)
+    if p.line_total:
+        _measure_vertical(found, events, p, t.ppc)
+    _measure_frames(found, events, p, t)
+    if events:
+        found["xy_steps"].add(events[-1].step_faults)
+    found["hsync_polarity"] = set(_polarity(h_idle))
+    found["vsync_polarity"] = set(_polarity(v_idle))
+    return {
+        key: Figure(key, label, unit, tuple(sorted(found[key], key=_sort_key)))
+        for key, label, unit in QUANTITIES
+    }
+
+
+def _measure_lines(found: Found, events: Sequence[Event], p: _Pulses, ppc: int) -> None:
+    """Horizontal figures, in pixels: periods, widths, de runs and the porches of every line."""
+    for (s1, _), (s2, _) in zip(p.hsyncs, p.hsyncs[1:], strict=False):
+        found["hsync_period"].add((s2 - s1) * ppc)
+    for s, e in p.hsyncs:
+        found["hsync_width"].add((e - s) * ppc)
+    found["line_total"].update((b - a) * ppc for a, b in zip(p.line_starts, p.line_starts[1:], strict=False))
+    for b_start, b_end in p.hblanks:
         if b_end is not None and b_start > 0:
             found["hblank_width"].add((b_end - b_start) * ppc)
-    if line_total:
-        for b_start, b_end in _pulses(events, "vblank", 1):
-            if b_end is not None and b_start > 0:
-                found["vblank_width"].add(_lines(b_end - b_start, line_total))
     found["de_vs_blanks"].add(
         "yes" if all(e.de == 1 - (e.hblank | e.vblank) for e in events[1:]) else "no")  # fmt: skip
-    for s, e in de_runs:
+    for s, e in p.de_runs:
         found["h_active"].add((e - s) * ppc)
     # Porches around every hsync pulse, active line or not: from the blanking start (hblank
     # rising) to the pulse, and from the pulse to the next line start (hblank falling).
-    blank_starts = [s for s, _ in hblanks if s > 0]
-    for s, e in hs:
+    blank_starts = [s for s, _ in p.hblanks if s > 0]
+    for s, e in p.hsyncs:
         before = [b for b in blank_starts if b <= s]
-        if before and s - before[-1] < max(line_total, 1):
+        if before and s - before[-1] < max(p.line_total, 1):
             found["h_front"].add((s - before[-1]) * ppc)
-        after = [ls for ls in line_starts if ls >= e]
-        if after and after[0] - e < max(line_total, 1):
+        after = [ls for ls in p.line_starts if ls >= e]
+        if after and after[0] - e < max(p.line_total, 1):
             found["h_back"].add((after[0] - e) * ppc)
 
-    # Frames: the de runs between consecutive vsync pulses.
-    if line_total:
-        for (s, e), nxt in zip(vs, [*vs[1:], None], strict=False):
-            before = [r for r in rises if r <= s]
-            if before:
-                offset = (s - before[-1]) % line_total
-                found["vsync_offset"].add(offset * ppc)
-                found["v_front"].add((s - offset - before[-1] - line_total) // line_total)
-                found["vsync_width"].add(_lines(e - s, line_total))
-                # The line in which vsync ends starts `offset` cycles before its end.
-                after = [r for r in rises if r >= e - offset]
-                if after:
-                    found["v_back"].add((after[0] - (e - offset)) // line_total)
-            if nxt is not None:
-                found["frame_total"].add(_lines(nxt[0] - s, line_total))
 
-    # Per frame, from one frame's first de rise to the next: coordinates and strobes.
+def _measure_vertical(found: Found, events: Sequence[Event], p: _Pulses, ppc: int) -> None:
+    """Vertical figures, in lines (needs a line total): blanking, vsync and its porches."""
+    line_total = p.line_total
+    for b_start, b_end in _pulses(events, "vblank", 1):
+        if b_end is not None and b_start > 0:
+            found["vblank_width"].add(_lines(b_end - b_start, line_total))
+    # Frames: the de runs between consecutive vsync pulses.
+    rises = p.rises
+    for (s, e), nxt in zip(p.vsyncs, [*p.vsyncs[1:], None], strict=False):
+        before = [r for r in rises if r <= s]
+        if before:
+            offset = (s - before[-1]) % line_total
+            found["vsync_offset"].add(offset * ppc)
+            found["v_front"].add((s - offset - before[-1] - line_total) // line_total)
+            found["vsync_width"].add(_lines(e - s, line_total))
+            # The line in which vsync ends starts `offset` cycles before its end.
+            after = [r for r in rises if r >= e - offset]
+            if after:
+                found["v_back"].add((after[0] - (e - offset)) // line_total)
+        if nxt is not None:
+            found["frame_total"].add(_lines(nxt[0] - s, line_total))
+
+
+def _measure_frames(found: Found, events: Sequence[Event], p: _Pulses, t: Timing) -> None:
+    """Per frame, from one frame's first de rise to the next: active lines, coordinates, strobes."""
     by_adv = {e.adv: e for e in events}
-    frame_firsts = [r for i, r in enumerate(rises) if i == 0 or r - rises[i - 1] > line_total]
-    lead = t.spec.core.lead if t.spec.core.lead > 1 else 0
+    rises = p.rises
+    frame_firsts = [r for i, r in enumerate(rises) if i == 0 or r - rises[i - 1] > p.line_total]
     for start, stop in zip(frame_firsts, frame_firsts[1:], strict=False):
-        runs = [(s, e) for s, e in de_runs if start <= s < stop]
+        runs = [(s, e) for s, e in p.de_runs if start <= s < stop]
         found["v_active"].add(len(runs))
         # Right after reset a pixel pipeline of latency `lead` (the harness's delay line)
-        # still passes on the coordinates the core held in reset for lead - 1 pixels: the
-        # coordinates of a frame that begins that early are not judged.
-        if start > lead:
-            rows = [by_adv[s].y for s, _ in runs]
-            firsts = {by_adv[s].x for s, _ in runs}
-            lasts = {by_adv[e].x_last for _, e in runs}
-            found["x_range"].add(f"{min(firsts)}..{max(lasts)}"
-                                 if len(firsts) == 1 and len(lasts) == 1
-                                 else f"{sorted(firsts)}..{sorted(lasts)}")  # fmt: skip
-            s = t.scale_shift  # with core.scale each row number repeats 2**s times
-            steady = rows == [((rows[0] << s) + i) >> s for i in range(len(rows))]
-            found["y_range"].add(f"{rows[0]}..{rows[-1]}" if steady else f"irregular {rows[:6]}")
+        # still passes on the coordinates the core held in reset: the coordinates of a
+        # frame are judged only when it begins at or after the model's first exact
+        # position (an event's adv counts edges, so it shows position adv - 1).
+        if start - 1 >= t.exact_xy_from:
+            _measure_coordinates(found, runs, by_adv, t.scale_shift)
         found["line_start"].add((by_adv[stop].line_starts - by_adv[start].line_starts) % 65536)
         found["frame_start"].add((by_adv[stop].frame_starts - by_adv[start].frame_starts) % 65536)
         found["line_start_aligned"].add(
@@ -253,15 +235,20 @@ def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
         found["frame_start_aligned"].add(
             "yes" if by_adv[start].frame_start and not any(by_adv[s].frame_start for s, _ in runs[1:])
             else "no")  # fmt: skip
-    if events:
-        found["xy_steps"].add(events[-1].step_faults)
-    found["hsync_polarity"] = set(_polarity(h_idle))
-    found["vsync_polarity"] = set(_polarity(v_idle))
 
-    return {
-        key: Figure(key, label, unit, tuple(sorted(found[key], key=_sort_key)))
-        for key, label, unit in QUANTITIES
-    }
+
+def _measure_coordinates(found: Found, runs: list[tuple[int, int]], by_adv: dict[int, Event],
+                         scale_shift: int) -> None:  # fmt: skip
+    """x and y ranges of one frame's de runs: x from each run's first and last pixel, y per run."""
+    rows = [by_adv[s].y for s, _ in runs]
+    firsts = {by_adv[s].x for s, _ in runs}
+    lasts = {by_adv[e].x_last for _, e in runs}
+    found["x_range"].add(f"{min(firsts)}..{max(lasts)}"
+                         if len(firsts) == 1 and len(lasts) == 1
+                         else f"{sorted(firsts)}..{sorted(lasts)}")  # fmt: skip
+    s = scale_shift  # with core.scale each row number repeats 2**s times
+    steady = rows == [((rows[0] << s) + i) >> s for i in range(len(rows))]
+    found["y_range"].add(f"{rows[0]}..{rows[-1]}" if steady else f"irregular {rows[:6]}")
 
 
 def _lines(cycles: int, line_total: int) -> object:

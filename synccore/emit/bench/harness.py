@@ -14,14 +14,10 @@ from dataclasses import dataclass
 
 from synccore.emit._jinja import environment
 from synccore.emit.core.context import GENERATED_MARK, CoreContext, build_context
-from synccore.model import Timing
+from synccore.model import LFSR_SEED, MONITOR_FIELDS, RESET_CYCLES, Timing
 from synccore.spec import Spec
-from synccore.verification.measure import MONITOR_FIELDS
 
 HARNESS_TOP = "synccore_harness"
-RESET_CYCLES = 4
-LFSR_SEED = 0xACE1
-"""Seed of the 16-bit LFSR (x^16 + x^14 + x^13 + x^11 + 1) behind the irregular clock enable."""
 
 
 @dataclass(frozen=True)
@@ -32,9 +28,9 @@ class HarnessContext:
     reset_port: str
     reset_active: int
     reset_cycles: int
-    lead: int
-    lead_last: int  # index of the last stage of the lead delay line
-    check_from: int  # x/y steps are judged from this advancing edge on (lead + 1)
+    lead: int  # stages of the delay line: the pixel pipeline's latency
+    lead_last: int  # index of the delay line's last stage
+    check_from: int  # x/y steps are judged once more than this many edges have advanced
     ppc: int
     x_step: int  # growth of x per cycle inside a de run; 0: holds, then grows by 1 (scaled)
     lfsr_seed: int
@@ -46,17 +42,16 @@ class HarnessContext:
 def harness_context(spec: Spec) -> HarnessContext:
     t = Timing(spec)
     core = build_context(t)
-    low = spec.core.reset.endswith("_low")
     return HarnessContext(
         core=core,
         top=HARNESS_TOP,
         mark=GENERATED_MARK,
-        reset_port=core.port["rst_n" if low else "rst"],
-        reset_active=0 if low else 1,
+        reset_port=core.reset_port,
+        reset_active=core.reset_active,
         reset_cycles=RESET_CYCLES,
-        lead=spec.core.lead,
-        lead_last=spec.core.lead - 1,
-        check_from=spec.core.lead + 1,
+        lead=t.lead,
+        lead_last=t.lead - 1,
+        check_from=t.xy_steps_judged_after,
         ppc=t.ppc,
         x_step=t.x_step,
         lfsr_seed=LFSR_SEED,

@@ -1,9 +1,12 @@
 """Stand-alone self-checking test benches (Verilog and VHDL) for users of vendor simulators.
 
 The bench restates the reference model (:meth:`synccore.model.Timing.outputs_at`)
-as behavioural HDL from the same precomputed numbers: it counts the positions
-the core has shown since reset, computes what every output must be, compares
-on every cycle, prints the first mismatches and ends with a PASS or FAIL line.
+as behavioural HDL from the model's numbers: it counts the positions the core
+has shown since reset, once from the first active pixel and once from the
+lead-shifted reset position that x/y show, works out what every output must be,
+compares on every cycle, prints the first mismatches and ends with a PASS or
+FAIL line.  It counts for itself (that is its independent check), but every edge
+position, terminal count and start value it counts with comes from the model.
 """
 
 from __future__ import annotations
@@ -11,13 +14,11 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from synccore.emit._jinja import environment
-from synccore.emit.bench.harness import LFSR_SEED
 from synccore.emit.core.context import GENERATED_MARK, CoreContext, build_context
-from synccore.model import Timing
+from synccore.model import LFSR_SEED, RESET_CYCLES, Timing
 from synccore.spec import Spec
 
 DEFAULT_FRAMES = 2
-RESET_CYCLES = 4
 MAX_REPORTED = 10
 
 
@@ -43,22 +44,24 @@ class TestbenchContext:
     lfsr_seed: int
 
 
-def testbench_context(spec: Spec, frames: int = DEFAULT_FRAMES) -> TestbenchContext:
+def testbench_context(spec: Spec, *, frames: int = DEFAULT_FRAMES) -> TestbenchContext:
     t = Timing(spec)
     core = build_context(t)
-    low = spec.core.reset.endswith("_low")
+    lead_h, lead_v = t.lead_reset
+    ahead = f"{t.lead} cycle{'' if t.lead == 1 else 's'} on"
     consts = (
-        BenchConstant("H_TOTAL", t.h_total, "cycles per line"),
+        BenchConstant("H_LAST", t.h_last, "last cycle of a line"),
         BenchConstant("H_ACTIVE", t.h_active, "active cycles per line"),
         BenchConstant("H_SYNC_START", t.h_sync_start, "first cycle of hsync"),
-        BenchConstant("H_SYNC_CYCLES", t.h_sync, "cycles of hsync"),
-        BenchConstant("V_TOTAL", t.v_total, "lines per frame"),
+        BenchConstant("H_SYNC_STOP", t.h_sync_stop, "first cycle after hsync (not wrapped)"),
+        BenchConstant("V_LAST", t.v_last, "last line of a frame"),
         BenchConstant("V_ACTIVE", t.v_active, "active lines"),
         BenchConstant("V_SYNC_FIRST", t.vsync_first,
                       "position of the first vsync leading edge after reset"),
         BenchConstant("V_SYNC_CYCLES", t.vsync_cycles, "cycles of vsync"),
         BenchConstant("FRAME_CYCLES", t.frame_cycles, "cycles per frame"),
-        BenchConstant("LEAD", spec.core.lead, "cycles by which x/y lead de"),
+        BenchConstant("H_LEAD_RESET", lead_h, f"column (cycles) x shows at position 0 ({ahead})"),
+        BenchConstant("V_LEAD_RESET", lead_v, f"line y shows at position 0 ({ahead})"),
         BenchConstant("PIXELS_PER_CLOCK", t.ppc, "pixels per cycle"),
         BenchConstant("SCALE", spec.core.scale, "x and y are the pixel's column and row / SCALE"),
         BenchConstant("HSYNC_ON", t.hsync_active_level, "hsync level in the pulse"),
@@ -70,8 +73,8 @@ def testbench_context(spec: Spec, frames: int = DEFAULT_FRAMES) -> TestbenchCont
         mark=GENERATED_MARK,
         source=core.header[0],
         constants=consts,
-        reset_port=core.port["rst_n" if low else "rst"],
-        reset_active=0 if low else 1,
+        reset_port=core.reset_port,
+        reset_active=core.reset_active,
         reset_cycles=RESET_CYCLES,
         max_reported=MAX_REPORTED,
         frames=frames,
@@ -79,7 +82,8 @@ def testbench_context(spec: Spec, frames: int = DEFAULT_FRAMES) -> TestbenchCont
     )
 
 
-def render_testbench(spec: Spec, language: str, frames: int = DEFAULT_FRAMES) -> str:
-    """The self-checking bench of ``spec``'s core in ``language`` ("verilog" or "vhdl")."""
+def render_testbench(spec: Spec, language: str, *, frames: int = DEFAULT_FRAMES) -> str:
+    """The self-checking bench of ``spec``'s core in ``language`` ("verilog" or "vhdl"),
+    checking ``frames`` frames after reset."""
     template = {"verilog": "bench/testbench.v.j2", "vhdl": "bench/testbench.vhd.j2"}[language]
-    return environment().get_template(template).render(b=testbench_context(spec, frames))
+    return environment().get_template(template).render(b=testbench_context(spec, frames=frames))

@@ -9,15 +9,14 @@ from __future__ import annotations
 from synccore.emit._jinja import environment
 from synccore.emit.core.context import GENERATED_MARK
 from synccore.emit.first_light.pattern import pattern_context
+from synccore.model import RESET_CYCLES
 from synccore.spec import Spec
 
 BENCH = "synccore_view"
-RESET_CYCLES = 4
 
 
 def _bench_view(spec: Spec, pattern: str) -> dict[str, object]:
     c = pattern_context(spec, pattern)
-    low = spec.core.reset.endswith("_low")
     bits = sum(ch.bits for ch in c.channels)
     pad = 32 - 3 - bits
     names = ", ".join(ch.base for ch in c.channels)
@@ -26,8 +25,8 @@ def _bench_view(spec: Spec, pattern: str) -> dict[str, object]:
         "top": c.top,
         "bench": BENCH,
         "port": c.core.port,
-        "reset_port": c.core.port["rst_n" if low else "rst"],
-        "reset_active": 0 if low else 1,
+        "reset_port": c.core.reset_port,
+        "reset_active": c.core.reset_active,
         "reset_cycles": RESET_CYCLES,
         "has_ce": c.core.has_ce,
         "channels": c.channels,

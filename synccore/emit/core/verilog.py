@@ -16,7 +16,7 @@ def render_verilog(spec: Spec) -> str:
 
 
 def _verilog_view(ctx: CoreContext) -> dict[str, object]:
-    reset = ctx.port["rst_n"] if ctx.reset_active_low else ctx.port["rst"]
+    reset = ctx.reset_port
     edge = "negedge" if ctx.reset_active_low else "posedge"
     sensitivity = f"posedge {ctx.port['clk']}" + (f" or {edge} {reset}" if ctx.reset_async else "")
     name_w = max(len(c.name) for c in ctx.constants)

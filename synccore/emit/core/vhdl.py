@@ -16,7 +16,7 @@ def render_vhdl(spec: Spec) -> str:
 
 
 def _vhdl_view(ctx: CoreContext) -> dict[str, object]:
-    reset = ctx.port["rst_n"] if ctx.reset_active_low else ctx.port["rst"]
+    reset = ctx.reset_port
     name_w = max([len(c.name) for c in ctx.constants]
                  + ([len("PIXELS_PER_CLOCK")] if ctx.ppc > 1 else []))  # fmt: skip
     consts = []
@@ -52,7 +52,7 @@ def _vhdl_view(ctx: CoreContext) -> dict[str, object]:
         "constants": [f"{d.ljust(decl_w)}  -- {c}" for d, c in consts],
         "ports": [f"{t.ljust(port_w)}  -- {c}" for t, c in ports],
         "reset": reset,
-        "reset_level": bit(0 if ctx.reset_active_low else 1),
+        "reset_level": bit(ctx.reset_active),
         "outputs": [(p.name, p.base + "_q") for p in outputs],
         "x_value": x_value,
         "y_value": y_value,

@@ -85,9 +85,7 @@ def pattern_context(spec: Spec, pattern: str) -> PatternContext:
         take = min(bits, sbits)
         channels.append(Channel(p + base, base, bits, bits - 1, source, sbits, sbits - 1,
                                 sbits - take, bits - take))  # fmt: skip
-    lead = spec.core.lead
-    sync_delay = max(0, PIPELINE_STAGES - lead)
-    colour_delay = max(0, lead - PIPELINE_STAGES)
+    sync_delay, colour_delay = t.alignment_delays(PIPELINE_STAGES)
     bounds = [(f"BAR_{k}", b, k) for k, b in enumerate(bar_bounds(width), start=1)]
     header = list(header_lines(t))
     header[1] = f"Test pattern '{pattern}' for display timing core '{spec.name}'."
@@ -178,6 +176,5 @@ def render_top(spec: Spec, pattern: str, language: str) -> str:
         "header": vh.comment_lines(tuple(header)),
         "hsync_off": vh.bit(1 - t.hsync_active_level),
         "vsync_off": vh.bit(1 - t.vsync_active_level),
-        "reset": c.core.port["rst_n" if c.core.reset_active_low else "rst"],
     }
     return environment().get_template("first_light/top.vhd.j2").render(c=c, v=view)
