@@ -10,15 +10,15 @@ module panel_800x480_tb;
 
     parameter FRAMES = 2;  // frames to check after reset
 
-    localparam integer H_LAST           = 968;  // last cycle of a line
+    localparam integer H_LAST           = 955;  // last cycle of a line
     localparam integer H_ACTIVE         = 800;  // active cycles per line
-    localparam integer H_SYNC_START     = 903;  // first cycle of hsync
-    localparam integer H_SYNC_STOP      = 923;  // first cycle after hsync (not wrapped)
-    localparam integer V_LAST           = 515;  // last line of a frame
+    localparam integer H_SYNC_START     = 852;  // first cycle of hsync
+    localparam integer H_SYNC_STOP      = 876;  // first cycle after hsync (not wrapped)
+    localparam integer V_LAST           = 522;  // last line of a frame
     localparam integer V_ACTIVE         = 480;  // active lines
-    localparam integer V_SYNC_FIRST     = 472806;  // position of the first vsync leading edge after reset
-    localparam integer V_SYNC_CYCLES    = 5814;  // cycles of vsync
-    localparam integer FRAME_CYCLES     = 500004;  // cycles per frame
+    localparam integer V_SYNC_FIRST     = 467380;  // position of the first vsync leading edge after reset
+    localparam integer V_SYNC_CYCLES    = 4780;  // cycles of vsync
+    localparam integer FRAME_CYCLES     = 499988;  // cycles per frame
     localparam integer H_LEAD_RESET     = 0;  // column (cycles) x shows at position 0 (0 cycles on)
     localparam integer V_LEAD_RESET     = 0;  // line y shows at position 0 (0 cycles on)
     localparam integer PIXELS_PER_CLOCK = 1;  // pixels per cycle

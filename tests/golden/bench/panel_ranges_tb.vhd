@@ -13,15 +13,15 @@ entity panel_800x480_tb is
 end entity panel_800x480_tb;
 
 architecture bench of panel_800x480_tb is
-    constant H_LAST           : integer := 968;  -- last cycle of a line
+    constant H_LAST           : integer := 955;  -- last cycle of a line
     constant H_ACTIVE         : integer := 800;  -- active cycles per line
-    constant H_SYNC_START     : integer := 903;  -- first cycle of hsync
-    constant H_SYNC_STOP      : integer := 923;  -- first cycle after hsync (not wrapped)
-    constant V_LAST           : integer := 515;  -- last line of a frame
+    constant H_SYNC_START     : integer := 852;  -- first cycle of hsync
+    constant H_SYNC_STOP      : integer := 876;  -- first cycle after hsync (not wrapped)
+    constant V_LAST           : integer := 522;  -- last line of a frame
     constant V_ACTIVE         : integer := 480;  -- active lines
-    constant V_SYNC_FIRST     : integer := 472806;  -- position of the first vsync leading edge after reset
-    constant V_SYNC_CYCLES    : integer := 5814;  -- cycles of vsync
-    constant FRAME_CYCLES     : integer := 500004;  -- cycles per frame
+    constant V_SYNC_FIRST     : integer := 467380;  -- position of the first vsync leading edge after reset
+    constant V_SYNC_CYCLES    : integer := 4780;  -- cycles of vsync
+    constant FRAME_CYCLES     : integer := 499988;  -- cycles per frame
     constant H_LEAD_RESET     : integer := 0;  -- column (cycles) x shows at position 0 (0 cycles on)
     constant V_LEAD_RESET     : integer := 0;  -- line y shows at position 0 (0 cycles on)
     constant PIXELS_PER_CLOCK : integer := 1;  -- pixels per cycle
