@@ -1,0 +1,1 @@
+"""The Amaranth model of the core (SyncCore, the built-in engine) and of the first-light design."""

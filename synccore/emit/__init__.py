@@ -1,4 +1,4 @@
-"""Stage 4: emitters, one per target language, fed by one precomputed context."""
+"""Emitters: every text synccore writes, laid out by Jinja templates from precomputed contexts."""
 
 from synccore.emit.core.verilog import render_verilog
 from synccore.emit.core.vhdl import render_vhdl

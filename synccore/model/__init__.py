@@ -1,4 +1,4 @@
-"""Stage 3: the timing model, the one oracle every emitter, bench and test relies on.
+"""The timing model, the one oracle every emitter, bench and test relies on.
 
 :class:`Timing` holds every timing rule; :mod:`synccore.model.contract` names the
 conventions the benches, the measurement and the Amaranth engine share.

@@ -1,4 +1,4 @@
-"""Stage 3: the timing model — every derived number, and the cycle-by-cycle reference.
+"""The timing model — every derived number, and the cycle-by-cycle reference.
 
 This module is the oracle.  :class:`Timing` derives all counts (in clock
 cycles, after dividing the horizontal figures by pixels_per_clock) and rates
@@ -92,7 +92,7 @@ class Timing:
     @property
     def h_sync_start(self) -> int:
         """First cycle of the hsync pulse: the active cycles and the front porch come before it."""
-        return self.h_active + self.h_front
+        return self.spec.horizontal.sync_start // self.ppc
 
     @property
     def h_sync_stop(self) -> int:
@@ -123,7 +123,7 @@ class Timing:
     @property
     def v_sync_start(self) -> int:
         """First line of the vsync pulse: the active lines and the front porch come before it."""
-        return self.spec.vertical.active + self.spec.vertical.front_porch
+        return self.spec.vertical.sync_start
 
     @property
     def v_sync_stop(self) -> int:

@@ -1,0 +1,1 @@
+"""The picture before the board: first-light runs to pins, simulated monitor, VCD, diagrams."""

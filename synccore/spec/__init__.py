@@ -1,4 +1,4 @@
-"""Stage 1: the timing description format — its types, fields, YAML reading and validation.
+"""The timing description format — its types, fields, YAML reading and validation.
 
 Later stages import from this package only (never from its underscored modules):
 

@@ -55,6 +55,21 @@ class Axis:
     def blanking(self) -> int:
         return self.total - self.active
 
+    @property
+    def sync_start(self) -> int:
+        """First pixel (line) of the sync pulse, counted from the first active one.
+
+        The VESA order within a line (a frame): active, front porch, sync, back porch.
+        This is the one place that order is written; everything else asks here or
+        :class:`synccore.model.Timing`, which converts it to clock cycles.
+        """
+        return self.active + self.front_porch
+
+    @property
+    def sync_stop(self) -> int:
+        """One past the last pixel (line) of the sync pulse, not wrapped."""
+        return self.sync_start + self.sync
+
 
 @dataclass(frozen=True)
 class CoreOptions:

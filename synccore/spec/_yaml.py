@@ -1,4 +1,4 @@
-"""Stage 1: read a YAML file into plain Python values that remember their source positions.
+"""Read a YAML file into plain Python values that remember their source positions.
 
 Only PyYAML's safe composer is used: the document is composed into a node tree
 (which keeps line/column marks) and converted here with the safe resolver's

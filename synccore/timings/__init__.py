@@ -1,4 +1,4 @@
-"""Stage 2: where a timing's numbers come from when a description does not give them.
+"""Where a timing's numbers come from when a description does not give them.
 
 The VESA DMT and CTA-861 library (:mod:`.modes`), the CVT and GTF formulas
 (:mod:`.formulas`), fitting a panel datasheet's ranges (:mod:`.panel`), X.Org

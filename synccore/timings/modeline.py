@@ -117,8 +117,7 @@ def clock_mhz_text(pixel_clock_hz: Fraction) -> str:
 def format_line(name: str, pixel_clock_hz: Fraction, h: Axis, v: Axis) -> str:
     """One ``Modeline`` line for a timing.  Clocks finer than 1 Hz are rounded to 1 Hz."""
     def positions(a: Axis) -> str:
-        start = a.active + a.front_porch
-        return f"{a.active} {start} {start + a.sync} {a.total}"
+        return f"{a.active} {a.sync_start} {a.sync_stop} {a.total}"
 
     def flag(a: Axis, which: str) -> str:
         return ("+" if a.sync_polarity == "positive" else "-") + which

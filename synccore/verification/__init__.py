@@ -1,0 +1,1 @@
+"""Running a core in the simulators or the built-in engine, measuring it, judging it."""

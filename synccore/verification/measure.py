@@ -1,4 +1,4 @@
-"""Stage 5: measuring a running core from its signal edges, and judging it against the spec.
+"""Measuring a running core from its signal edges, and judging it against the spec.
 
 A simulator (through the cocotb bench in ``sim/``) or the built-in engine records
 an :class:`~synccore.model.Event` whenever hsync, vsync, de or a blank changes.  :func:`measure` turns

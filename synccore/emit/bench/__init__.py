@@ -1,0 +1,1 @@
+"""Benches around a core: measurement harness, self-checking test benches, display bench."""

@@ -1,0 +1,1 @@
+"""The timing core in Verilog and VHDL, laid out from one precomputed CoreContext."""
