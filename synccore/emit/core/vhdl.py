@@ -27,17 +27,14 @@ def _vhdl_view(ctx: CoreContext) -> dict[str, object]:
             decl = f"constant {c.name.ljust(name_w)} : natural   := {c.value};"
         consts.append((decl, c.comment))
     # Counters are integers (fast in simulators, sized by their range in synthesis); x and y
-    # are the counts scaled by powers of two, which synthesis turns into wiring.
-    x_value, y_value = ctx.x_from, ctx.y_from
+    # are the counts scaled by powers of two (the template multiplies by PIXELS_PER_CLOCK and
+    # divides by SCALE), which synthesis turns into wiring.
     if ctx.ppc > 1:
         consts.append((f"constant {'PIXELS_PER_CLOCK'.ljust(name_w)} : natural   := {ctx.ppc};",
                        "pixels carried by each cycle"))  # fmt: skip
-        x_value = f"{x_value} * PIXELS_PER_CLOCK"
     if ctx.has_scale:
         consts.append((f"constant {'SCALE'.ljust(name_w)} : natural   := {ctx.scale};",
                        "x and y are divided by this"))  # fmt: skip
-        x_value = f"{x_value} / SCALE"
-        y_value = f"{y_value} / SCALE"
     decl_w = max(len(d) for d, _ in consts)
     pname_w = max(len(p.name) for p in ctx.ports)
     ports = []
@@ -54,7 +51,5 @@ def _vhdl_view(ctx: CoreContext) -> dict[str, object]:
         "reset": reset,
         "reset_level": bit(ctx.reset_active),
         "outputs": [(p.name, p.base + "_q") for p in outputs],
-        "x_value": x_value,
-        "y_value": y_value,
         "out_w": max(len(p.name) for p in outputs),
     }
