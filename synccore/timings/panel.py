@@ -86,7 +86,7 @@ class FitResult:
     vertical: Axis
     target_refresh_hz: Fraction
     met: bool
-    bounds: tuple[str, ...]  # e.g. "horizontal.front_porch at its max 354"
+    bounds: tuple[str, ...]  # e.g. "horizontal.front_porch at its max 240"
 
     @property
     def refresh_hz(self) -> Fraction:
