@@ -19,11 +19,13 @@ Cyclone IV .qsf    location, ``IO_STANDARD`` and pull-up assignments
 
 The timing file (``.sdc``; for the 7 series the ``.xdc`` above carries it)
 declares the board clock on the board top's clock pin and the pixel clock on
-its ``pixel_clk`` net with the frequency the plan reaches.  nextpnr derives
-the PLL's output clock from the board clock alone; the net line restates it
-for tools that do not.  Quartus derives it with ``derive_pll_clocks``, Vivado
-by itself (see :mod:`synccore.emit.clock.constraints`).  The clock-enable
-route has no pin file (no family is named) and only the board clock.
+its ``pixel_clk`` net (kept by name through synthesis) with the frequency the
+plan reaches.  nextpnr-ice40 and nextpnr-ecp5 derive the PLL's output clock
+from the board clock alone; nextpnr-himbaechel-gowin 0.11 does not (measured:
+it falls back to its default 12 MHz), and reads the net line.  Quartus
+derives it with ``derive_pll_clocks``, Vivado by itself (see
+:mod:`synccore.emit.clock.constraints`).  The clock-enable route has no pin
+file (no family is named) and only the board clock.
 """
 
 from __future__ import annotations
