@@ -23,6 +23,7 @@ from synccore.clocking import FAMILIES, FAMILY_KEYS, Family
 from synccore.clocking.plan import ClockPlan, make_plan
 from synccore.emit import render_verilog, render_vhdl
 from synccore.emit.files import (
+    board_artifacts,
     clock_artifacts,
     core_artifacts,
     pattern_artifacts,
@@ -91,6 +92,11 @@ def write(
     generator and the first-light top level, ``<name>_pattern.*`` and ``<name>_top.*``.
     ``clock`` (a plan from :func:`plan_clock` for this spec) adds the PLL or
     clock-enable wrapper ``<name>_clock.v``/``.vhd`` and its SDC or XDC constraints.
+    ``pattern`` and ``clock`` together add the board top ``<name>_board.v``/``.vhd``
+    (board clock pin, PLL or clock enable, reset synchroniser, first-light top, pins:
+    it synthesises as it is), its pin file for the family to fill in (``.pcf``,
+    ``.lpf``, ``.cst``, ``.xdc`` or ``.qsf``; none for the clock-enable route) and
+    its timing constraints (``.sdc``; in the ``.xdc`` for the 7 series).
 
     The folder is created if missing.  An existing file is replaced only if
     synccore generated it, or with ``force=True``.
@@ -122,6 +128,8 @@ def write(
         artifacts += pattern_artifacts(spec, pattern)
     if clock is not None:
         artifacts += clock_artifacts(clock)
+    if clock is not None and pattern is not None:
+        artifacts += board_artifacts(clock, pattern)
     return write_artifacts(artifacts, out_dir, force=force)
 
 

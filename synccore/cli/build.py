@@ -26,7 +26,8 @@ HARDWARE_CAUTION = (
 @click.option("--force", is_flag=True,
               help="Overwrite files in the folder even if synccore did not generate them.")
 @click.option("--clock", "with_clock", is_flag=True,
-              help="Also write the clock wrapper OUT/<name>_clock.v/.vhd and its constraints.")
+              help="Also write the clock wrapper OUT/<name>_clock.v/.vhd and its constraints; "
+                   "with --pattern also the board top OUT/<name>_board.* and its pin file.")
 @board_options
 @click.option("--testbench", "with_testbench", is_flag=True,
               help="Also write self-checking test benches OUT/<name>_tb.v and OUT/<name>_tb.vhd.")
@@ -56,7 +57,11 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
         print_plan(plan, out)
     for path in written:
         out.print(f"wrote {path}")
-    if pattern is not None:
+    if pattern is not None and plan is not None:
+        out.print(f"first-light design: synthesise {s.name}_board (board clock to pins, pattern "
+                  f"{pattern}) after filling in the pins of its pin file; see it first with "
+                  f"`synccore view {spec} --pattern {pattern}`")  # fmt: skip
+    elif pattern is not None:
         out.print(f"first-light design: synthesise {s.name}_top (pattern {pattern}); "
                       f"see it first with `synccore view {spec} --pattern {pattern}`")  # fmt: skip
     out.print(HARDWARE_CAUTION, style="dim")

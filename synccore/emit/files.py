@@ -76,6 +76,35 @@ def pattern_artifacts(spec: Spec, pattern: str) -> list[Artifact]:
     ]
 
 
+def board_artifacts(plan: ClockPlan, pattern: str) -> list[Artifact]:
+    """The board top (clock pin to display pins) in every language, its pin file and timing.
+
+    Needs the pattern and clock artifacts beside it: it instantiates ``<name>_clock``
+    and ``<name>_top``.  The clock-enable route has no pin file (no family is named);
+    for the 7 series the pin file (``.xdc``) carries the timing too.
+    """
+    from synccore.emit.first_light.board import board_module, render_board
+    from synccore.emit.first_light.board_pins import (
+        pin_suffix,
+        render_pins,
+        render_timing,
+        timing_suffix,
+    )
+
+    name = board_module(plan)
+    out = [
+        Artifact(name + ".v", render_board(plan, pattern, "verilog")),
+        Artifact(name + ".vhd", render_board(plan, pattern, "vhdl")),
+    ]
+    pins = pin_suffix(plan)
+    if pins is not None:
+        out.append(Artifact(name + pins, render_pins(plan, pattern)))
+    timing = timing_suffix(plan)
+    if timing is not None:
+        out.append(Artifact(name + timing, render_timing(plan, pattern)))
+    return out
+
+
 def _generated_by_us(path: Path) -> bool:
     try:
         with path.open("r", encoding="utf-8", errors="replace") as f:
