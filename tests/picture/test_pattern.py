@@ -5,8 +5,10 @@ from __future__ import annotations
 from collections.abc import Callable
 from pathlib import Path
 
+import numpy as np
 import pytest
 from click.testing import CliRunner
+from PIL import Image
 
 import synccore
 from synccore.cli.main import main
@@ -19,6 +21,7 @@ from tests import golden_files
 from tests import samples as timings
 from tests.conftest import EXAMPLES
 from tests.hdl import GHDL_WARNINGS, run
+from tests.picture.test_pattern_sim import expected_image
 
 BASE = timings.DMT_640x480
 VARIANTS = {
@@ -213,3 +216,15 @@ def test_golden_first_light(example: Path) -> None:
     spec = synccore.load(example)
     for a in pattern_artifacts(spec, GOLDEN_PATTERN[example.stem]):
         golden_files.check(example.stem + a.name[len(spec.name):], a.text)
+
+
+def test_view_cli_at_two_pixels_per_clock(tmp_path: Path) -> None:
+    """The 720p example (2 pixels per clock) through `view --sim model`: named and pictured."""
+    example = next(p for p in EXAMPLES if p.stem == "monitor_1280x720")
+    out = tmp_path / "seen.png"
+    result = CliRunner().invoke(main, ["view", str(example), "--sim", "model", "--pattern", "bars",
+                                       "-o", str(out)])  # fmt: skip
+    assert result.exit_code == 0, result.output
+    assert "1280x720@60" in result.output  # CTA-861 VIC 4 is 1280x720 at 60 Hz (from memory)
+    got = np.asarray(Image.open(out).convert("RGB"))
+    assert np.array_equal(got, np.asarray(expected_image("bars", 1280, 720)))
