@@ -11,7 +11,7 @@ Import this module only when needed: Amaranth is an optional dependency.
 
 from __future__ import annotations
 
-from amaranth.hdl import Elaboratable, Module, Signal, Value
+from amaranth.hdl import Cat, Const, Elaboratable, Module, Signal, Value
 from amaranth.sim import Simulator
 
 from synccore.amaranth.core import SyncCore
@@ -31,37 +31,56 @@ class FirstLight(Elaboratable):  # type: ignore[misc]
         self.hsync = Signal(init=t.hsync_inactive_level)
         self.vsync = Signal(init=t.vsync_inactive_level)
         self.de = Signal()
-        self.colour = [Signal(ch.bits, name=ch.base) for ch in self.ctx.channels]
+        self.colour = [Signal(ch.bus_msb + 1, name=ch.base) for ch in self.ctx.channels]
         self.cycle = Signal(32)
 
-    def _pattern(self, m: Module, x: Value, y: Value) -> list[Signal]:
+    def _lane_columns(self, x: Value) -> list[Value]:
+        """The column of each lane: x itself, or x with its low bits set to the lane's index."""
         c = self.ctx
-        out = [Signal(ch.bits, name=f"pattern_{ch.base}") for ch in c.channels]
-        if c.flags["gradient"]:
-            for sig, ch in zip(out, c.channels, strict=True):
-                src = x if ch.source == "x" else y
-                taken = src[ch.take_lsb:ch.take_msb + 1]
-                m.d.sync += sig.eq(taken << ch.pad if ch.pad else taken)
-            return out
-        if c.flags["bars"]:
-            bar = Signal(3)
-            with m.If(x >= c.bar_bounds[0][1]):
-                m.d.comb += bar.eq(c.bar_bounds[0][2])
-            for _, bound, index in c.bar_bounds[1:]:
-                with m.Elif(x >= bound):
-                    m.d.comb += bar.eq(index)
-            for i, sig in enumerate(out):
-                m.d.sync += sig.eq(bar[i].replicate(len(sig)))
-            return out
-        mask = (1 << (c.grid_msb + 1)) - 1
-        if c.flags["grid"]:
-            on = ((x & mask) == 0) | ((y & mask) == 0) | (x == c.x_last) | (y == c.y_last)
-        elif c.flags["checker"]:
-            on = x[c.checker_bit] ^ y[c.checker_bit]
-        else:  # edges
-            on = (x == 0) | (x == c.x_last) | (y == 0) | (y == c.y_last)
-        for sig in out:
-            m.d.sync += sig.eq(on.replicate(len(sig)))
+        if not c.has_lanes:
+            return [x]
+        shift = c.core.x_shift
+        return [Cat(Const(lane.index, shift), x[shift:]) for lane in c.lanes]
+
+    def _lane_colours(self, m: Module, x: Value, y: Value) -> list[list[Value]]:
+        """(red, green, blue) of each lane, before the pattern's register."""
+        c = self.ctx
+        out: list[list[Value]] = []
+        for lx in self._lane_columns(x):
+            if c.flags["gradient"]:
+                colour = []
+                for ch in c.channels:
+                    src = lx if ch.source == "x" else y
+                    taken = src[ch.take_lsb:ch.take_msb + 1]
+                    colour.append(Cat(Const(0, ch.pad), taken) if ch.pad else taken)
+                out.append(colour)
+                continue
+            if c.flags["bars"]:
+                bar = Signal(3)
+                with m.If(lx >= c.bar_bounds[0][1]):
+                    m.d.comb += bar.eq(c.bar_bounds[0][2])
+                for _, bound, index in c.bar_bounds[1:]:
+                    with m.Elif(lx >= bound):
+                        m.d.comb += bar.eq(index)
+                out.append([bar[i].replicate(ch.bits) for i, ch in enumerate(c.channels)])
+                continue
+            mask = (1 << (c.grid_msb + 1)) - 1
+            if c.flags["grid"]:
+                on = ((lx & mask) == 0) | ((y & mask) == 0) | (lx == c.x_last) | (y == c.y_last)
+            elif c.flags["checker"]:
+                on = lx[c.checker_bit] ^ y[c.checker_bit]
+            else:  # edges
+                on = (lx == 0) | (lx == c.x_last) | (y == 0) | (y == c.y_last)
+            out.append([on.replicate(ch.bits) for ch in c.channels])
+        return out
+
+    def _pattern(self, m: Module, x: Value, y: Value) -> list[Signal]:
+        """The pattern generator's registered colour buses: every pixel's word, pixel 0 lowest."""
+        c = self.ctx
+        lanes = self._lane_colours(m, x, y)
+        out = [Signal(ch.bus_msb + 1, name=f"pattern_{ch.base}") for ch in c.channels]
+        for k, sig in enumerate(out):
+            m.d.sync += sig.eq(Cat(*(lanes[p.lane.index][k] for p in c.pixels)))
         return out
 
     def elaborate(self, platform: object) -> Module:
@@ -90,15 +109,22 @@ class FirstLight(Elaboratable):  # type: ignore[misc]
 
 
 def run_picture(spec: Spec, pattern: str, cycles: int) -> str:
-    """Simulate :class:`FirstLight` for ``cycles`` clocks; the display bench's change lines."""
+    """Simulate :class:`FirstLight` for ``cycles`` clocks; the display bench's change lines.
+
+    As in the HDL bench, a line gives the cycle, hsync, vsync, de and then red, green
+    and blue of each pixel of the cycle, pixel 0 first.
+    """
     top = FirstLight(spec, pattern)
     pins = [top.hsync, top.vsync, top.de, *top.colour]
+    words = [(k, lsb, (1 << (msb - lsb + 1)) - 1) for p in top.ctx.pixels
+             for k, (msb, lsb) in enumerate(ch.slices[p.index] for ch in top.ctx.channels)]  # fmt: skip
     lines: list[str] = []
 
     async def bench(ctx: object) -> None:
         def record() -> None:
             values = [ctx.get(p) for p in pins]  # type: ignore[attr-defined]
-            lines.append(" ".join(str(v) for v in [ctx.get(top.cycle), *values]))  # type: ignore[attr-defined]
+            colours = [values[3 + k] >> lsb & mask for k, lsb, mask in words]
+            lines.append(" ".join(str(v) for v in [ctx.get(top.cycle), *values[:3], *colours]))  # type: ignore[attr-defined]
 
         record()
         while True:

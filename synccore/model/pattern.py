@@ -24,6 +24,12 @@ display turns the colour pins back into an image.  Definitions:
 ``edges``
     A one-pixel white frame on the outermost columns and rows, black inside:
     on a monitor it shows at once whether a porch is off by a pixel.
+
+Several pixels per clock.  With ``core.pixels_per_clock = N`` the design draws N
+pixels on each cycle: the core's ``x`` is the picture column of the group's first
+pixel, and pixel ``i`` of the group (``0 .. N-1``, left to right) shows picture column
+``x + i // scale``.  So ``max(1, N // scale)`` distinct columns are drawn per cycle
+(:func:`columns_per_cycle`); with a scale of N or more all N pixels show column ``x``.
 """
 
 from __future__ import annotations
@@ -48,10 +54,6 @@ def pattern_problems(spec: Spec) -> list[Problem]:
     where that file writes it, so a caller can raise them together as a ``SpecError``.
     """
     out = []
-    n = spec.core.pixels_per_clock
-    if n != 1:
-        out.append(Problem(spec.location("core.pixels_per_clock"), "core.pixels_per_clock",
-                           f"must be 1 for the test-pattern design, got {n}"))  # fmt: skip
     scale = spec.core.scale
     need = MIN_ACTIVE * scale
     with_scale = f" with core.scale = {scale}" if scale > 1 else ""
@@ -66,6 +68,16 @@ def pattern_problems(spec: Spec) -> list[Problem]:
 def picture_size(spec: Spec) -> tuple[int, int]:
     """Width and height of the pattern's picture: the active area divided by core.scale."""
     return spec.horizontal.active // spec.core.scale, spec.vertical.active // spec.core.scale
+
+
+def columns_per_cycle(spec: Spec) -> int:
+    """Distinct picture columns the design draws on one cycle: pixels_per_clock // scale, at least 1."""
+    return max(1, spec.core.pixels_per_clock // spec.core.scale)
+
+
+def pixel_column(x: int, i: int, scale: int) -> int:
+    """Picture column of pixel ``i`` of a group whose first pixel is at picture column ``x``."""
+    return x + i // scale
 
 
 def bar_bounds(width: int) -> list[int]:

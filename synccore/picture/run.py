@@ -3,7 +3,11 @@
 The display bench (``templates/bench/view_bench.*.j2``) makes the clock in HDL,
 resets the top level, and writes one line to a file whenever hsync, vsync, de
 or a colour pin changes (sampled on the falling clock edge); Python reads the
-file after the run and never wakes per cycle.  The simulators run directly
+file after the run and never wakes per cycle.  With ``core.pixels_per_clock = N``
+each clock cycle carries N pixels: the reader spreads every cycle over N pixel
+periods (syncs and de held, pixel ``i`` of the cycle in period ``i``), so the
+:class:`Pins` always hold one sample per pixel clock and the simulated monitor
+works at the pixel rate whatever N is.  The simulators run directly
 (no cocotb): ``iverilog``/``vvp``, ``ghdl``, and Verilator's ``--binary``
 (built once per content hash in the synccore cache, as its builds are slow).
 
@@ -28,7 +32,7 @@ import numpy as np
 from synccore.emit.bench.view import BENCH, render_bench
 from synccore.emit.files import core_artifacts, pattern_artifacts
 from synccore.model import Timing
-from synccore.model.pattern import levels, picture_size
+from synccore.model.pattern import levels, picture_size, pixel_column
 from synccore.spec import Spec
 from synccore.verification.simulate import VERILATOR_ARGS, cache_dir, locked
 from synccore.verification.tools import INSTALL_HINT, build_env, find
@@ -60,7 +64,7 @@ class Pins:
 
 
 def cycles_needed(spec: Spec) -> int:
-    """Enough cycles for two vsync leading edges and the whole frame between them."""
+    """Enough core clock cycles for two vsync leading edges and the whole frame between them."""
     t = Timing(spec)
     return (t.v_sync_start + t.v_total + 3) * t.h_total
 
@@ -88,12 +92,17 @@ def _run(cmd: list[str], cwd: Path, env: dict[str, str] | None = None) -> None:
 
 def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
              cycles: int | None = None) -> Pins:  # fmt: skip
-    """Run the first-light design of ``spec`` with ``pattern`` on ``engine``; return its pins."""
+    """Run the first-light design of ``spec`` with ``pattern`` on ``engine``; return its pins.
+
+    ``cycles`` counts core clock cycles (default :func:`cycles_needed`); the pins hold
+    ``cycles * pixels_per_clock`` samples, one per pixel clock.
+    """
     if engine not in VIEW_ENGINES:
         raise ValueError(f"unknown engine {engine!r}; choose from {', '.join(VIEW_ENGINES)}")
     n = cycles or cycles_needed(spec)
     bits = (spec.color.red, spec.color.green, spec.color.blue)
     period_s = float(1 / spec.pixel_clock_hz)
+    ppc = spec.core.pixels_per_clock
     if engine == "model":
         return model_pins(spec, pattern, n)
     if engine == "builtin":
@@ -102,7 +111,8 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
         except ImportError:
             raise ViewError("engine 'builtin' needs Amaranth: install the PyPI package 'amaranth' "
                             "(pip install 'synccore[amaranth]'), or use --sim model") from None
-        return read_screen(run_picture(spec, pattern, n), period_s=period_s, bits=bits)
+        return read_screen(run_picture(spec, pattern, n), period_s=period_s, bits=bits,
+                           pixels_per_clock=ppc)  # fmt: skip
     tool = find(engine)
     if tool is None:
         raise ViewError(f"simulator {engine!r} not found: {INSTALL_HINT[engine]}")
@@ -137,11 +147,18 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
         _run([str(binary), f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir, tool.env)
     if not screen.is_file():
         raise ViewError(f"{engine}: the bench wrote no {screen.name}")
-    return read_screen(screen.read_text(), period_s=period_s, bits=bits)
+    return read_screen(screen.read_text(), period_s=period_s, bits=bits, pixels_per_clock=ppc)
 
 
-def read_screen(text: str, *, period_s: float, bits: tuple[int, int, int]) -> Pins:
-    """Expand the bench's change records into one sample per cycle."""
+def read_screen(text: str, *, period_s: float, bits: tuple[int, int, int],
+                pixels_per_clock: int = 1) -> Pins:  # fmt: skip
+    """Expand the bench's change records into one sample per pixel clock.
+
+    A record is ``<cycle> <hsync> <vsync> <de>`` and then ``<red> <green> <blue>`` of
+    each of the cycle's ``pixels_per_clock`` pixels, pixel 0 first.
+    """
+    n = pixels_per_clock
+    fields = 3 + 3 * n
     starts: list[int] = []
     values: list[list[int]] = []
     total = None
@@ -152,32 +169,45 @@ def read_screen(text: str, *, period_s: float, bits: tuple[int, int, int]) -> Pi
         if parts[0] == "end":
             total = int(parts[1])
             break
+        if len(parts) != 1 + fields:
+            raise ViewError(f"the display bench's record {line!r} has {len(parts) - 1} values, "
+                            f"expected {fields} for {n} pixel(s) per clock")  # fmt: skip
         starts.append(int(parts[0]))
-        values.append([int(p) for p in parts[1:7]])
+        values.append([int(p) for p in parts[1:]])
     if total is None or not starts:
         raise ViewError("the display bench's record is cut short (no end line)")
     lengths = np.diff(np.array(starts + [total]))
-    cols = np.repeat(np.array(values, dtype=np.int64), lengths, axis=0)
-    return Pins(period_s, cols[:, 0], cols[:, 1], cols[:, 2], cols[:, 3], cols[:, 4], cols[:, 5], bits)
+    cols = np.repeat(np.array(values, dtype=np.int64), lengths, axis=0)  # one row per cycle
+    per_pixel = cols[:, 3:].reshape(-1, n, 3).reshape(-1, 3)  # cycle-major, pixel 0 first
+    hs, vs, de = (np.repeat(cols[:, k], n) for k in range(3))
+    return Pins(period_s, hs, vs, de, per_pixel[:, 0], per_pixel[:, 1], per_pixel[:, 2], bits)
 
 
 def model_pins(spec: Spec, pattern: str, cycles: int) -> Pins:
     """The pins of the first-light design computed from the timing model, without HDL.
 
+    ``cycles`` counts core clock cycles; the pins hold one sample per pixel clock
+    (``cycles * pixels_per_clock``), pixel ``i`` of a cycle showing picture column
+    :func:`~synccore.model.pattern.pixel_column` of the cycle's first column.
     The top level's pins lag the core's by the output stage; since the monitor
     locks on the syncs, the pins are given here from the first cycle after reset.
     """
     t = Timing(spec)
+    n = t.ppc
     q = np.arange(cycles, dtype=np.int64)
     h, v = t.position(q)
-    de = (h < t.h_active) & (v < t.v_active)
-    hs = np.where(t.in_hsync(h), t.hsync_active_level, t.hsync_inactive_level)
-    vs = np.where(t.in_vsync(q), t.vsync_active_level, t.vsync_inactive_level)
+    de = np.repeat((h < t.h_active) & (v < t.v_active), n)
+    hs = np.repeat(np.where(t.in_hsync(h), t.hsync_active_level, t.hsync_inactive_level), n)
+    vs = np.repeat(np.where(t.in_vsync(q), t.vsync_active_level, t.vsync_inactive_level), n)
     w, ht = picture_size(spec)
     table = np.array([[levels(pattern, x, y, w, ht, spec.color) for x in range(w)] for y in range(ht)],
                      dtype=np.int64)  # fmt: skip
-    rgb = np.zeros((cycles, 3), dtype=np.int64)
     s = t.scale_shift
-    rgb[de] = table[v[de] >> s, h[de] >> s]
+    first = (h * n) >> s  # picture column of each cycle's first pixel
+    offsets = np.array([pixel_column(0, i, spec.core.scale) for i in range(n)], dtype=np.int64)
+    column = np.add.outer(first, offsets).reshape(-1)
+    row = np.repeat(v >> s, n)
+    rgb = np.zeros((cycles * n, 3), dtype=np.int64)
+    rgb[de] = table[row[de], column[de]]
     return Pins(float(1 / spec.pixel_clock_hz), hs, vs, de.astype(np.int64), rgb[:, 0], rgb[:, 1],
                 rgb[:, 2], (spec.color.red, spec.color.green, spec.color.blue))

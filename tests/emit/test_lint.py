@@ -8,10 +8,12 @@ from pathlib import Path
 import pytest
 
 import synccore
+from synccore.emit.files import core_artifacts, pattern_artifacts
+from synccore.model.pattern import PATTERNS
 from synccore.verification.tools import Tool
 from tests import samples as timings
 from tests.conftest import EXAMPLES
-from tests.hdl import ghdl_analyse, iverilog_compile, verilator_lint
+from tests.hdl import GHDL_WARNINGS, ghdl_analyse, iverilog_compile, run, verilator_lint
 
 pytestmark = pytest.mark.sim
 
@@ -81,3 +83,59 @@ def test_lint_catches_a_broken_core(tmp_path: Path, need_tool: Callable[[str], T
     source.write_text(source.read_text().replace("h_pos <= h_pos + 1'b1;", "h_pos <= 1'b1;"))
     with pytest.raises(AssertionError, match="WIDTH"):
         verilator_lint(verilator, source)
+
+
+# The first-light design (core + pattern generator + top level) at several pixels per clock:
+# every pattern, and the lanes with scale, lead, clock enable and a port prefix.
+def _wide_first_light(ppc: int, core: dict[str, object], name: str) -> str:
+    return timings.spec_text(name, "10 MHz", (64, 8, 8, 8, "positive"), (40, 1, 1, 1, "negative"),
+                             core={"pixels_per_clock": ppc, **core})  # fmt: skip
+
+
+WIDE_FIRST_LIGHT = {
+    "ppc2": _wide_first_light(2, {}, "fl_ppc2"),
+    "ppc4_lead3_ce": _wide_first_light(4, {"lead": 3, "clock_enable": True}, "fl_ppc4"),
+    "ppc8_lead0_async_low": _wide_first_light(8, {"lead": 0, "reset": "async_low"}, "fl_ppc8")
+    + "color: {red: 8, green: 6, blue: 5}\n",
+    "ppc4_scale2": _wide_first_light(4, {"scale": 2, "lead": 1}, "fl_ppc4_s2").replace("active: 40",
+                                                                                       "active: 64"),
+    "ppc2_scale4": _wide_first_light(2, {"scale": 4, "lead": 1}, "fl_ppc2_s4")
+    .replace("active: 64", "active: 128").replace("active: 40", "active: 128"),
+}
+WIDE_CASES = [(case, pattern) for case in WIDE_FIRST_LIGHT for pattern in PATTERNS]
+
+
+def _emit_first_light(text: str, pattern: str, tmp_path: Path, suffix: str) -> list[str]:
+    spec = synccore.loads(text, "case.yaml")
+    names = []
+    for a in core_artifacts(spec) + pattern_artifacts(spec, pattern):  # core, pattern, top
+        if a.name.endswith(suffix):
+            (tmp_path / a.name).write_text(a.text)
+            names.append(a.name)
+    return names
+
+
+@pytest.mark.parametrize("case, pattern", WIDE_CASES, ids=[f"{c}-{p}" for c, p in WIDE_CASES])
+def test_first_light_verilog_lints_clean_at_several_pixels_per_clock(
+    case: str, pattern: str, tmp_path: Path, need_tool: Callable[[str], Tool],
+    need_program: Callable[[str], str],
+) -> None:  # fmt: skip
+    need_program("iverilog")
+    verilator = need_tool("verilator")
+    names = _emit_first_light(WIDE_FIRST_LIGHT[case], pattern, tmp_path, ".v")
+    top = names[-1][: -len(".v")]
+    run(["verilator", "--lint-only", "-Wall", "--top-module", top, *names], tmp_path, verilator.env)
+    out = run(["iverilog", "-g2001", "-Wall", "-o", "/dev/null", *names], tmp_path)
+    assert "warning" not in out.lower(), out
+
+
+@pytest.mark.parametrize("case, pattern", WIDE_CASES, ids=[f"{c}-{p}" for c, p in WIDE_CASES])
+def test_first_light_vhdl_analyses_clean_at_several_pixels_per_clock(
+    case: str, pattern: str, tmp_path: Path, need_program: Callable[[str], str]
+) -> None:  # fmt: skip
+    need_program("ghdl")
+    names = _emit_first_light(WIDE_FIRST_LIGHT[case], pattern, tmp_path, ".vhd")
+    for std in ("93", "08"):
+        (tmp_path / f"w{std}").mkdir()
+        run(["ghdl", "-a", f"--std={std}", f"--workdir=w{std}", *GHDL_WARNINGS, "-Werror", *names],
+            tmp_path)  # fmt: skip

@@ -163,3 +163,94 @@ def test_view_cli_on_ghdl(tmp_path: Path, need_tool: Callable[[str], Tool]) -> N
     assert "no standard mode" in result.output and "75 ohm" in result.output
     got = np.asarray(Image.open(out).convert("RGB"))
     assert np.array_equal(got, np.asarray(expected_image("grid", 100, 50)))
+
+
+# ---------------------------------------------------------------------------------------
+# Several pixels per clock: the pins carry N pixels a cycle, the reader spreads them out.
+# ---------------------------------------------------------------------------------------
+WIDE = (
+    "name: wide\n"
+    "pixel_clock_hz: 2 MHz\n"
+    "horizontal: {active: 120, front_porch: 8, sync: 16, back_porch: 16, sync_polarity: negative}\n"
+    "vertical: {active: 40, front_porch: 2, sync: 2, back_porch: 4, sync_polarity: positive}\n"
+    "color: {red: 3, green: 3, blue: 2}\n"
+)  # a made-up small timing whose figures divide by 8; 120 columns put the bar edges
+# (15, 30, 45, ...) and the last column (119) inside a group of 2, 4 or 8 pixels
+
+
+def _wide(ppc: int, extra: str = "") -> str:
+    return WIDE + f"core: {{pixels_per_clock: {ppc}{extra}}}\n"
+
+
+@pytest.mark.sim
+@pytest.mark.parametrize("pattern", ["bars", "grid", "edges", "checker", "gradient"])
+@pytest.mark.parametrize("ppc", [2, 4])
+@pytest.mark.parametrize("engine", ["icarus", "ghdl"])
+def test_png_at_several_pixels_per_clock(engine: str, ppc: int, pattern: str, tmp_path: Path,
+                                         need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
+    need_tool(engine)
+    _check(_wide(ppc), pattern, engine, tmp_path)
+
+
+@pytest.mark.sim
+@pytest.mark.parametrize("engine", ["icarus", "ghdl"])
+def test_lead_and_clock_enable_at_several_pixels_per_clock(
+    engine: str, tmp_path: Path, need_tool: Callable[[str], Tool]
+) -> None:
+    need_tool(engine)
+    _check(_wide(8, ", lead: 3, clock_enable: true, reset: async_low"), "bars", engine, tmp_path)
+    _check(_wide(4, ", lead: 1") + "ports: {prefix: lcd_}\n", "edges", engine, tmp_path / "lead1")
+
+
+@pytest.mark.sim
+@pytest.mark.parametrize("ppc, pattern", [(2, "checker"), (4, "bars")])
+def test_png_at_several_pixels_per_clock_on_verilator(ppc: int, pattern: str, tmp_path: Path,
+                                                      need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
+    need_tool("verilator")
+    _check(_wide(ppc), pattern, "verilator", tmp_path)
+
+
+@pytest.mark.parametrize("pattern", ["bars", "grid", "edges", "checker", "gradient"])
+@pytest.mark.parametrize("ppc", [2, 4, 8])
+@pytest.mark.parametrize("engine", ["builtin", "model"])
+def test_png_at_several_pixels_per_clock_without_hdl_simulator(engine: str, ppc: int, pattern: str,
+                                                               tmp_path: Path) -> None:  # fmt: skip
+    if engine == "builtin":
+        pytest.importorskip("amaranth")
+    _check(_wide(ppc), pattern, engine, tmp_path)
+    _check(_wide(ppc, ", lead: 3, clock_enable: true"), pattern, engine, tmp_path / "lead3")
+
+
+@pytest.mark.parametrize("ppc, scale", [(4, 2), (2, 4), (8, 2)])
+@pytest.mark.parametrize("engine", [pytest.param("icarus", marks=pytest.mark.sim),
+                                    pytest.param("ghdl", marks=pytest.mark.sim), "builtin", "model"])
+def test_scaled_picture_at_several_pixels_per_clock(engine: str, ppc: int, scale: int, tmp_path: Path,
+                                                    need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
+    """Each picture pixel covers scale x scale signal pixels, whether a cycle holds 1, 2 or 4 of them."""
+    if engine == "builtin":
+        pytest.importorskip("amaranth")
+    elif engine != "model":
+        need_tool(engine)
+    # 120 / 2 = 60 and 120 / 4 = 30 picture columns are too few for the design at scale 4 (32):
+    # this raster is 160 x 128, giving 80 x 64 or 40 x 32 picture pixels.
+    text = WIDE.replace("active: 120", "active: 160").replace("active: 40", "active: 128")
+    spec = synccore.loads(text + f"core: {{pixels_per_clock: {ppc}, scale: {scale}, lead: 1}}\n")
+    mon = watch(simulate(spec, "grid", engine=engine, work_dir=tmp_path))
+    assert mon.problems == [] and mon.image is not None
+    w, h = 160 // scale, 128 // scale
+    want = expected_image("grid", w, h).resize((160, 128), Image.Resampling.NEAREST)
+    assert np.array_equal(np.asarray(mon.image), np.asarray(want))
+
+
+def test_reader_spreads_each_cycle_over_its_pixels() -> None:
+    """Two cycles of a 2-pixel bench record become four pixel periods, pixel 0 first."""
+    from synccore.picture.run import ViewError, read_screen
+
+    text = "0 1 0 1 7 6 3 1 2 0\n1 0 1 0 0 0 0 0 0 0\nend 2\n"  # written here by hand
+    pins = read_screen(text, period_s=1e-8, bits=(3, 3, 2), pixels_per_clock=2)
+    assert pins.hsync.tolist() == [1, 1, 0, 0] and pins.vsync.tolist() == [0, 0, 1, 1]
+    assert pins.de is not None and pins.de.tolist() == [1, 1, 0, 0]
+    assert (pins.red.tolist(), pins.green.tolist(), pins.blue.tolist()) == ([7, 1, 0, 0], [6, 2, 0, 0],
+                                                                            [3, 0, 0, 0])  # fmt: skip
+    with pytest.raises(ViewError, match="has 8 values, expected 9 for 2 pixel"):
+        read_screen("0 1 0 1 7 6 3 1 2\nend 1\n", period_s=1e-8, bits=(3, 3, 2), pixels_per_clock=2)

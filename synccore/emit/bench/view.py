@@ -2,6 +2,8 @@
 
 It makes the clock, resets, and writes a line to a file whenever hsync, vsync, de
 or a colour changes; :mod:`synccore.picture.run` builds it and reads the file.
+A line is ``<cycle> <hsync> <vsync> <de>`` and then ``<red> <green> <blue>`` of
+each pixel of the cycle, pixel 0 first (one pixel, or ``pixels_per_clock`` of them).
 """
 
 from __future__ import annotations
@@ -17,9 +19,9 @@ BENCH = "synccore_view"
 
 def _bench_view(spec: Spec, pattern: str) -> dict[str, object]:
     c = pattern_context(spec, pattern)
-    bits = sum(ch.bits for ch in c.channels)
-    pad = 32 - 3 - bits
-    names = ", ".join(ch.base for ch in c.channels)
+    bits = sum(ch.bus_msb + 1 for ch in c.channels)
+    # One (channel, msb, lsb) per word written: the pixels in order, red, green, blue in each.
+    words = [(ch.base, *ch.slices[p.index]) for p in c.pixels for ch in c.channels]
     return {
         "mark": GENERATED_MARK,
         "top": c.top,
@@ -30,10 +32,9 @@ def _bench_view(spec: Spec, pattern: str) -> dict[str, object]:
         "reset_cycles": RESET_CYCLES,
         "has_ce": c.core.has_ce,
         "channels": c.channels,
-        "pack_verilog": (f"{pad}'d0, " if pad else "") + f"hsync, vsync, de, {names}",
-        "pack_vhdl": "hsync & vsync & de & " + " & ".join(ch.base for ch in c.channels),
+        "words": words,
+        "pack": ["hsync", "vsync", "de", *(ch.base for ch in c.channels)],
         "pack_msb": 3 + bits - 1,
-        "channel_args": names,
     }
 
 

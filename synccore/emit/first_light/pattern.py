@@ -9,6 +9,13 @@ pin once more, blanking the colour outside de:
 * with ``core.lead = 0`` the top delays hsync, vsync and de by one cycle;
 * with ``core.lead = L > 1`` the top delays the colour by ``L - 1`` cycles.
 
+With ``core.pixels_per_clock = N > 1`` the generator draws the N pixels of a cycle
+at once (see :mod:`synccore.model.pattern`): each colour output is one bus of
+``N * bits`` bits, pixel 0 (the leftmost, at the core's ``x``) in the low bits, and
+the top passes those buses to its pins unchanged.  The distinct columns of a cycle
+are the *lanes*: lane ``j`` is the core's ``x`` with its low bits (always zero, as
+``x`` advances by N columns) replaced by ``j``, so no adder is needed.
+
 All numbers are computed here; the templates only lay them out.
 """
 
@@ -27,8 +34,10 @@ from synccore.model.pattern import (
     PATTERNS,
     PIPELINE_STAGES,
     bar_bounds,
+    columns_per_cycle,
     pattern_problems,
     picture_size,
+    pixel_column,
 )
 from synccore.spec import Spec
 
@@ -46,6 +55,25 @@ class Channel:
     take_msb: int  # gradient: top slice of the coordinate ...
     take_lsb: int  # ... down to this bit
     pad: int  # zero bits appended below when the coordinate is narrower than the channel
+    bus_msb: int  # top bit of the output bus: pixels_per_clock words of `bits` bits
+    slices: tuple[tuple[int, int], ...]  # (msb, lsb) of each pixel's word in the bus, pixel 0 first
+
+
+@dataclass(frozen=True)
+class Lane:
+    """One distinct picture column drawn per cycle, and the names of its signals."""
+
+    index: int
+    x: str  # the lane's column: the core's x itself when there is one lane
+    bar: str  # bars: the lane's bar index
+    on: str  # grid, checker, edges: 1 where the lane's pixel is white (Verilog wire)
+    on_var: str  # the same as a VHDL variable
+
+
+@dataclass(frozen=True)
+class Pixel:
+    index: int  # 0 .. pixels_per_clock - 1, left to right
+    lane: Lane  # the lane whose colour it shows
 
 
 @dataclass(frozen=True)
@@ -66,6 +94,10 @@ class PatternContext:
     colour_delay: int  # cycles by which it delays the colour
     colour_delay_last: int
     latency: int  # cycles from the core's syncs to the top's pins
+    wide: bool  # more than one pixel per clock: the colour outputs are buses of pixels
+    has_lanes: bool  # more than one distinct column per cycle: lane columns are made from x
+    lanes: tuple[Lane, ...]
+    pixels: tuple[Pixel, ...]  # pixel 0 first
 
 
 def pattern_context(spec: Spec, pattern: str) -> PatternContext:
@@ -79,16 +111,23 @@ def pattern_context(spec: Spec, pattern: str) -> PatternContext:
     p = spec.port_prefix
     width, height = picture_size(spec)
     xb, yb = bits_for(width - 1), bits_for(height - 1)
+    n = spec.core.pixels_per_clock
     channels = []
     for base, bits, source, sbits in (("red", spec.color.red, "x", xb), ("green", spec.color.green, "y", yb),
                                       ("blue", spec.color.blue, "x", xb)):  # fmt: skip
         take = min(bits, sbits)
+        slices = tuple((bits * (i + 1) - 1, bits * i) for i in range(n))
         channels.append(Channel(p + base, base, bits, bits - 1, source, sbits, sbits - 1,
-                                sbits - take, bits - take))  # fmt: skip
+                                sbits - take, bits - take, n * bits - 1, slices))  # fmt: skip
+    lanes = _lanes(spec, core)
+    pixels = tuple(Pixel(i, lanes[pixel_column(0, i, spec.core.scale)]) for i in range(n))
     sync_delay, colour_delay = t.alignment_delays(PIPELINE_STAGES)
     bounds = [(f"BAR_{k}", b, k) for k, b in enumerate(bar_bounds(width), start=1)]
     header = list(header_lines(t))
     header[1] = f"Test pattern '{pattern}' for display timing core '{spec.name}'."
+    packing = _packing_lines(spec, channels)
+    if packing:
+        header += ["", *packing]
     return PatternContext(
         core=core,
         pattern=pattern,
@@ -106,7 +145,35 @@ def pattern_context(spec: Spec, pattern: str) -> PatternContext:
         colour_delay=colour_delay,
         colour_delay_last=colour_delay - 1,
         latency=1 + sync_delay,
+        wide=n > 1,
+        has_lanes=len(lanes) > 1,
+        lanes=lanes,
+        pixels=pixels,
     )
+
+
+def _lanes(spec: Spec, core: CoreContext) -> tuple[Lane, ...]:
+    count = columns_per_cycle(spec)
+    if count == 1:
+        return (Lane(0, core.port["x"], "bar", "on", "on_pixel"),)
+    return tuple(Lane(j, f"lane{j}_x", f"lane{j}_bar", f"lane{j}_on", f"lane{j}_on")
+                 for j in range(count))  # fmt: skip
+
+
+def _packing_lines(spec: Spec, channels: list[Channel]) -> list[str]:
+    """How the colour buses carry the pixels of a cycle (nothing at one pixel per clock)."""
+    n, scale = spec.core.pixels_per_clock, spec.core.scale
+    if n == 1:
+        return []
+    column = "x + i" if scale == 1 else f"x + i / {scale} (rounded down)"
+    lines = [f"{n} pixels per clock: each colour bus carries the {n} pixels of a cycle side by",
+             "side, pixel 0 (the leftmost, at the core's x) in the low bits; pixel i shows",
+             f"picture column {column}."]  # fmt: skip
+    for ch in channels:
+        words = [f"pixel {i} in bits {msb}..{lsb}" for i, (msb, lsb) in enumerate(ch.slices)]
+        shown = words if n <= 2 else [*words[:2], "...", words[-1]]
+        lines.append(f"  {ch.name}: {n} x {ch.bits} bits, {', '.join(shown)}")
+    return lines
 
 
 def _alignment_lines(c: PatternContext) -> list[str]:
@@ -133,6 +200,11 @@ def _caution() -> list[str]:
     ]
 
 
+def _vhdl_bits(value: int, width: int) -> str:
+    """A VHDL bit-string literal of ``value`` in ``width`` bits, e.g. ``"01"``."""
+    return '"' + format(value, f"0{width}b") + '"'
+
+
 def render_pattern(spec: Spec, pattern: str, language: str) -> str:
     """The pattern generator of ``spec`` in ``language`` ("verilog" or "vhdl")."""
     c = pattern_context(spec, pattern)
@@ -147,12 +219,14 @@ def render_pattern(spec: Spec, pattern: str, language: str) -> str:
             "bounds": [(n, vl.uint(b, c.core.x_width), vl.uint(k, 3)) for n, b, k in c.bar_bounds],
             "bar_zero": vl.uint(0, 3),
             "pads": {ch.base: vl.uint(0, ch.pad) if ch.pad else "" for ch in c.channels},
+            "lane_low": [vl.uint(lane.index, c.core.x_shift) for lane in c.lanes] if c.has_lanes else [],
         }
         return environment().get_template("first_light/pattern.v.j2").render(c=c, v=view)
     view = {
         "header": vh.comment_lines(c.header),
         "pads": {ch.base: vh.zeros(ch.pad) for ch in c.channels},
         "grid_zero": vh.zeros(GRID_BITS),
+        "lane_low": [_vhdl_bits(lane.index, c.core.x_shift) for lane in c.lanes] if c.has_lanes else [],
     }
     return environment().get_template("first_light/pattern.vhd.j2").render(c=c, v=view)
 
@@ -169,7 +243,7 @@ def render_top(spec: Spec, pattern: str, language: str) -> str:
             "header": vl.comment_lines(tuple(header)),
             "hsync_off": f"1'b{1 - t.hsync_active_level}",
             "vsync_off": f"1'b{1 - t.vsync_active_level}",
-            "zeros": {ch.base: vl.uint(0, ch.bits) for ch in c.channels},
+            "zeros": {ch.base: vl.uint(0, ch.bus_msb + 1) for ch in c.channels},
         }
         return environment().get_template("first_light/top.v.j2").render(c=c, v=view)
     view = {
