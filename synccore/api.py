@@ -46,7 +46,7 @@ from synccore.verification.engines import (
     cocotb_missing,
 )
 from synccore.verification.engines import verify as run_engines
-from synccore.verification.tools import INSTALL_HINT
+from synccore.verification.tools import INSTALL_HINT, unusable
 
 __all__ = [
     "Axis",
@@ -157,7 +157,8 @@ def pick_engines(engines: Sequence[str] | None = None) -> list[str]:
 
     ``None`` means every simulator found here (Icarus Verilog, GHDL, Verilator),
     or the built-in engine (Amaranth's simulator on the Amaranth model) when none
-    is.  Otherwise every name must be one of ``icarus``, ``ghdl``, ``verilator``,
+    is; :func:`synccore.verification.engines.unusable_engines` names those installed
+    but unusable, with the fix.  Otherwise every name must be one of ``icarus``, ``ghdl``, ``verilator``,
     ``builtin`` and must be able to run here.
     """
     found = available_engines()
@@ -177,16 +178,21 @@ def pick_engines(engines: Sequence[str] | None = None) -> list[str]:
         raise ToolError(f"{what}; choose from {', '.join(ENGINES)}")
     missing = [n for n in names if n not in found]
     if missing:
-        raise ToolError("; ".join(f"engine {n!r} not found: {_install_hint(n)}" for n in missing))
+        raise ToolError("; ".join(_not_found(n) for n in missing))
     return names
 
 
-def _install_hint(engine: str) -> str:
+def _not_found(engine: str) -> str:
+    """Why ``engine`` cannot run, in one line with its fix: installed but unusable, or missing."""
     if engine not in INSTALL_HINT:
-        return "install the PyPI package 'amaranth'"
+        return f"engine {engine!r} not found: install the PyPI package 'amaranth'"
+    why = unusable(engine)
+    if why is not None:
+        return f"engine {why}"
     if cocotb_missing():
-        return "the simulators run through cocotb: pip install 'synccore[sim]'"
-    return INSTALL_HINT[engine]
+        return (f"engine {engine!r} not found: {INSTALL_HINT[engine]}; the simulators also need "
+                "cocotb: pip install synccore")  # fmt: skip
+    return f"engine {engine!r} not found: {INSTALL_HINT[engine]}"
 
 
 def verify(

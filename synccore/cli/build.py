@@ -11,12 +11,43 @@ from synccore.cli.show import print_summary
 from synccore.cli.verify import run_verify
 from synccore.errors import SpecError, ToolError
 from synccore.model.pattern import PATTERNS
+from synccore.spec import Spec
 
-HARDWARE_CAUTION = (
-    "Hardware: match the FPGA bank's I/O voltage to what the display input accepts "
-    "(VGA syncs are TTL-level, VGA colour is 0-0.7 V into 75 ohm); check the parts' "
-    "datasheets before wiring. See the README, 'Hardware cautions'."
-)
+CAUTIONS = {
+    "monitor": "Hardware (monitor): match the FPGA bank's I/O voltage to the display input: VGA "
+               "syncs take TTL-like levels and VGA colour 0-0.7 V into 75 ohm, so size the resistor "
+               "DAC for that load and the bank's voltage; a DVI/HDMI transmitter takes what its "
+               "datasheet gives. See the README, 'Hardware cautions'.",
+    "panel": "Hardware (LCD panel): drive its inputs at the logic level its datasheet gives, and "
+             "follow the datasheet for the supply sequence and the backlight supply (often a boost "
+             "converter at tens of volts). See the README, 'Hardware cautions'.",
+    "tmds": "Hardware (TMDS link): the pairs need pins that can drive TMDS (or a level-shifting "
+            "circuit) and their pin constraints. See the README, 'Hardware cautions'.",
+}  # fmt: skip
+
+
+def display_kind(spec: Spec) -> str:
+    """``"panel"`` or ``"monitor"``: which display the spec's signals look made for.
+
+    The rule: a spec is a panel's when it is driven by data enable rather than by a
+    monitor's timing: when it was fitted to datasheet ranges (``fit:``), or when it
+    gives its own numbers and no library mode of its active size matches its rates,
+    polarities and sync widths as the simulated monitor matches them
+    (:func:`synccore.picture.naming.spec_mode`).  A library mode (``standard:``), a
+    CVT or GTF formula, or numbers that match a library mode are a monitor's.
+    """
+    from synccore.picture.naming import spec_mode
+
+    if spec.origin.startswith("fitted"):
+        return "panel"
+    if spec.origin or spec_mode(spec) is not None:
+        return "monitor"
+    return "panel"
+
+
+def cautions(spec: Spec, *, tmds: bool = False) -> list[str]:
+    """The hardware cautions that fit what ``spec`` drives; ``tmds`` when a TMDS link is written."""
+    return [CAUTIONS[display_kind(spec)]] + ([CAUTIONS["tmds"]] if tmds else [])
 
 
 @click.command()
@@ -64,6 +95,7 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
     elif pattern is not None:
         out.print(f"first-light design: synthesise {s.name}_top (pattern {pattern}); "
                       f"see it first with `synccore view {spec} --pattern {pattern}`")  # fmt: skip
-    out.print(HARDWARE_CAUTION, style="dim")
+    for caution in cautions(s):
+        out.print(caution, style="dim")
     if then_verify:
         run_verify(s, engines=None, frames=2, waves=False, work_dir=None, out=out)

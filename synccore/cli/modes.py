@@ -126,7 +126,8 @@ def spec_text(*, name: str, origin: str, notes: tuple[str, ...], clock: Fraction
         _commented("  pixels_per_clock: 1", "1, 2, 4 or 8"),
         _commented("  clock_enable: false", "true adds a ce input"),
         _commented("  reset: sync_high", "sync_high, sync_low, async_high or async_low"),
-        _commented("  lead: 0", "cycles by which x/y run ahead of syncs and de"),
+        # 1: the first-light pattern's one pipeline stage then meets de undelayed (docs/picture.md).
+        _commented("  lead: 1", "x/y run this many cycles ahead; 1 fits a 1-stage pixel pipeline"),
         "ports:",
         _commented('  prefix: ""', "text put before every port name"),
     ]

@@ -35,12 +35,20 @@ def run_verify(spec: Spec, *, engines: list[str] | None, frames: int, waves: boo
     """Measure ``spec`` on ``engines`` (None: the simulators found), print the table; exit 1 on a mismatch."""
     from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
 
-    from synccore.verification.engines import ENGINE_LANGUAGE
+    from synccore.verification.engines import ENGINE_LANGUAGE, unusable_engines
 
+    chosen_by_user = engines is not None
     try:
         engines = pick_engines(engines)
     except ToolError as err:
         fail(str(err))
+    if not chosen_by_user:
+        for line in unusable_engines():
+            out.print(f"note: {line}")
+        if engines == ["builtin"]:
+            out.print("note: no HDL simulator can run here, so only the Amaranth model is measured; "
+                      "install iverilog or ghdl (apt-get install iverilog ghdl) to check the emitted "
+                      "text")  # fmt: skip
     t = Timing(spec)
     with Progress(TextColumn("{task.description:<10}"), BarColumn(), MofNCompleteColumn(),
                   TextColumn("frames"), TimeElapsedColumn(), console=out,

@@ -22,6 +22,9 @@ MONITOR_CAUTION = (
     "voltage against the display input, size any resistor DAC for 0-0.7 V into 75 ohm, "
     "and follow the panel's and backlight supply's datasheets."
 )
+"""The caution when no spec says what the pins drive (``--vcd`` alone)."""
+VCD_HINT = ("give the SPEC too (synccore view SPEC --vcd ...) to check that the design places the "
+            "picture where its spec's porches do")  # fmt: skip
 
 
 @click.command(name="view")
@@ -47,11 +50,18 @@ MONITOR_CAUTION = (
 def view_command(spec: str | None, engine: str, pattern: str, out_png: str | None,
                  monitor_range: str | None, vcd: str | None, mapping: str | None,
                  work_dir: str | None) -> None:  # fmt: skip
-    """Simulate SPEC's first-light design and look at it as a monitor would: rates, mode, PNG."""
+    """Simulate SPEC's first-light design and look at it as a monitor would: rates, mode, PNG.
+
+    With ``--vcd`` the pins come from your own simulation; SPEC, when given too, is the
+    timing that design is meant to send, and de is checked against its porches.
+    """
+    from synccore.picture.compare import check_pattern
     from synccore.picture.monitor import watch
 
     rng = _monitor_range(monitor_range)
+    s = None
     if vcd:
+        s = load_spec(spec) if spec is not None else None
         pins = _pins_from_vcd(vcd, mapping)
         name = Path(vcd).stem
         title = f"{vcd}"
@@ -62,8 +72,12 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
         name = s.name
         title = f"{s.name} ({pattern}) on {engine}"
         pins = _simulate(s, pattern, engine, work_dir)
-    mon = watch(pins, monitor_range=rng)
-    _show(mon, title, Path(out_png or f"{name}_view.png"))
+    mon = watch(pins, monitor_range=rng, spec=s)
+    if s is not None and not vcd:
+        check_pattern(mon, s, pattern)
+    if s is None and mon.offset is not None and mon.offset != (0, 0):
+        mon.notes.append(VCD_HINT)
+    _show(mon, title, Path(out_png or f"{name}_view.png"), s)
     if mon.problems:
         fail((f"PROBLEM {problem}" for problem in mon.problems), code=FAILED)
 
@@ -116,7 +130,7 @@ def _simulate(s: Spec, pattern: str, engine: str, work_dir: str | None) -> Pins:
         fail(str(err))
 
 
-def _show(mon: Monitor, title: str, target: Path) -> None:
+def _show(mon: Monitor, title: str, target: Path, spec: Spec | None) -> None:
     """The monitor's summary table and notes, the PNG of the visible frame, the caution."""
     out = console()
     table = Table(title=f"simulated monitor: {title}", title_justify="left", show_header=False)
@@ -130,4 +144,9 @@ def _show(mon: Monitor, title: str, target: Path) -> None:
     if mon.image is not None:
         mon.image.save(target)
         out.print(f"wrote {target}")
-    out.print(MONITOR_CAUTION, style="dim")
+    if spec is None:
+        out.print(MONITOR_CAUTION, style="dim")
+    else:
+        from synccore.cli.build import cautions
+
+        out.print("This is a simulated monitor. " + " ".join(cautions(spec)), style="dim")

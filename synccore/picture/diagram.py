@@ -39,12 +39,18 @@ class Label:
     duration: str  # "25.422 µs" or "15.253 ms"
 
     @property
+    def amount(self) -> str:
+        """"96 px", "1 line", "33 lines": the count with its unit (px is an abbreviation)."""
+        unit = "line" if self.unit == "lines" and self.count == 1 else self.unit
+        return f"{self.count} {unit}"
+
+    @property
     def text(self) -> str:
-        return f"{self.part}\n{self.count} {self.unit}\n{self.duration}"
+        return f"{self.part}\n{self.amount}\n{self.duration}"
 
     @property
     def line(self) -> str:
-        return f"{self.part}: {self.count} {self.unit}, {self.duration}"
+        return f"{self.part}: {self.amount}, {self.duration}"
 
 
 @dataclass(frozen=True)

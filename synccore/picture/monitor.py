@@ -6,16 +6,29 @@ It does what a monitor does with the pins of :class:`synccore.picture.run.Pins`:
 2. measures the line period from hsync leading edges and the frame period from
    vsync leading edges, and the pulse widths; any spread between lines or
    frames is jitter;
-3. names the standard mode whose line rate and refresh are within
-   :data:`RATE_TOLERANCE`, whose sync polarities, lines per frame and pulse
-   widths agree (or says none, and names the nearest);
-4. locks on the syncs: with a named mode, it places the picture by the mode's
-   back porches counted from the sync leading edges, at the mode's pixel pitch
-   (line period / pixels per line), as a monitor's sampling clock would; with
-   no mode, it takes the picture where de is high;
-5. checks what a monitor would trip on: rates outside the user's range, a de
-   region not of the size or place the syncs imply, jitter (line or frame
-   period, sync width, or where de starts after vsync, between frames).
+3. names the standard mode whose rates, lines per frame, sync polarities and
+   widths agree (:mod:`synccore.picture.naming`), or says none and names the
+   nearest mode of the de region's size;
+4. finds where de puts the picture: clocks from the hsync leading edge and
+   lines from the vsync leading edge's line to the first pixel, de's width and
+   its lines;
+5. locks on the syncs and samples the picture at the design's own pixel clock
+   (as a digital input does, and an analog monitor once its auto-adjust has set
+   its sampling clock), where the mode's sync + back porch put it.  A picture
+   elsewhere is what a real monitor handles: an analog (VGA) monitor recentres
+   it within its adjustment range, a digital input (DVI, a panel) takes it
+   where de is; that is a note with the offset, and the picture is sampled
+   where de (or, without de, the spec) puts it;
+6. judges what a display would reject or show wrong: rates outside the user's
+   range; syncs with a mode's rates but not its polarity or width; a de region
+   not of the mode's size, or of runs of unequal length; jitter (line or frame
+   period, sync width, where de starts after vsync).  Given the spec the design
+   is meant to send (``spec=``), de must also be where and as large as the
+   spec's porches and active size say: the spec chose those porches, so a
+   place off the spec is the design's fault, and one off the mode only is the
+   spec's choice.  Without a spec (a user's own simulation) nothing says
+   whether the porches are meant, and a place off the mode is a note.
+   :func:`synccore.picture.compare.check_pattern` compares picture and pattern.
 
 The vsync leading edge is expected together with an hsync leading edge, as in
 DMT and CTA-861 timings; it is attributed to the first hsync leading edge at or
@@ -33,13 +46,12 @@ from fractions import Fraction
 import numpy as np
 from PIL import Image
 
+from synccore.picture.naming import Measured, also_text, name_mode
 from synccore.picture.run import Pins
+from synccore.spec import Axis, Spec
 from synccore.timings.modes import Mode, library
 
-RATE_TOLERANCE = 0.01
-"""Relative difference in line rate and refresh still taken as the same mode (1 %)."""
-WIDTH_TOLERANCE = 0.05
-"""Relative difference in hsync pulse width still taken as the same mode."""
+Range = tuple[tuple[float, float], tuple[float, float]]
 
 
 @dataclass(frozen=True)
@@ -47,6 +59,26 @@ class Pulses:
     active_level: int
     leading: np.ndarray  # sample index of each leading edge
     widths: np.ndarray  # samples of each complete pulse
+
+
+@dataclass(frozen=True)
+class Place:
+    """Where a picture is: its first pixel counted from the syncs, and its size."""
+
+    column: int  # clocks from a line's hsync leading edge to its first picture pixel
+    line: int  # lines from the vsync leading edge's line to the first picture line
+    width: int
+    lines: int
+
+    @staticmethod
+    def of(h: Axis, v: Axis) -> Place:
+        """Where the axes ``h`` and ``v`` (a spec's or a mode's) put the picture: sync + back porch."""
+        return Place(h.sync + h.back_porch, v.sync + v.back_porch, h.active, v.active)
+
+
+def count(n: int, noun: str) -> str:
+    """``count(1, "line")`` -> "1 line", ``count(7, "pixel")`` -> "7 pixels"."""
+    return f"{n} {noun}" if abs(n) == 1 else f"{n} {noun}s"
 
 
 @dataclass
@@ -67,6 +99,9 @@ class Monitor:
     also: tuple[Mode, ...] = ()
     nearest: Mode | None = None
     nearest_why: str = ""
+    size: tuple[int, int] | None = None  # the de region's width and lines, when de is seen
+    place: Place | None = None  # where de puts the picture
+    offset: tuple[int, int] | None = None  # pixels and lines from where the named mode puts it
     image: Image.Image | None = None
     placed_by: str = ""
     problems: list[str] = field(default_factory=list)
@@ -78,18 +113,22 @@ class Monitor:
         if self.line_rate_hz is not None:
             rows.append(("line rate", f"{self.line_rate_hz / 1e3:.3f} kHz ({self.line_cycles} clocks)"))
         if self.refresh_hz is not None:
-            rows.append(("refresh", f"{self.refresh_hz:.3f} Hz ({self.lines_per_frame} lines)"))
+            rows.append(("refresh", f"{self.refresh_hz:.3f} Hz ({count(self.lines_per_frame or 0, 'line')})"))
         if self.hsync_polarity:
-            rows.append(("hsync", f"{self.hsync_polarity}, {self.hsync_cycles} clocks"))
+            rows.append(("hsync", f"{self.hsync_polarity}, {count(self.hsync_cycles or 0, 'clock')}"))
         if self.vsync_polarity:
-            rows.append(("vsync", f"{self.vsync_polarity}, {self.vsync_lines} lines"))
+            rows.append(("vsync", f"{self.vsync_polarity}, {count(self.vsync_lines or 0, 'line')}"))
         if self.mode is not None:
-            also = "".join(f"; also matches {m.source}" for m in self.also)
-            rows.append(("mode", f"{self.mode.name} ({self.mode.source}{also})"))
-        else:
-            near = f"; nearest {self.nearest.name} ({self.nearest.source}): {self.nearest_why}" \
-                if self.nearest else ""
-            rows.append(("mode", f"no standard mode{near}"))
+            rows.append(("mode", f"{self.mode.name} ({self.mode.source}{also_text(self.mode, self.also)})"))
+        elif self.nearest is not None:
+            rows.append(("mode", f"no standard mode; nearest {self.nearest.name} ({self.nearest.source}): "
+                                 f"{self.nearest_why}"))  # fmt: skip
+        elif self.size is not None and self.line_rate_hz is not None:
+            rows.append(("mode", f"no standard mode; no library mode of this size (de {self.size[0]}x"
+                                 f"{self.size[1]}, {self.line_cycles} clocks per line, "
+                                 f"{self.lines_per_frame} lines per frame)"))  # fmt: skip
+        elif self.line_rate_hz is not None:
+            rows.append(("mode", "no standard mode"))
         if self.image is not None:
             rows.append(("picture", f"{self.image.width}x{self.image.height}, placed by {self.placed_by}"))
         return rows
@@ -122,66 +161,37 @@ def parse_range(text: str) -> tuple[tuple[float, float], tuple[float, float]]:
     return out[0], out[1]
 
 
-def _mode_distance(m: Mode, mon: Monitor) -> tuple[bool, float, str]:
-    assert mon.line_rate_hz and mon.refresh_hz and mon.hsync_cycles is not None
-    dl = abs(mon.line_rate_hz / float(m.line_rate_hz) - 1)
-    dr = abs(mon.refresh_hz / float(m.refresh_hz) - 1)
-    hs_s = mon.hsync_cycles * mon.period_s
-    mode_hs_s = m.horizontal.sync / float(m.pixel_clock_hz)
-    dw = abs(hs_s / mode_hs_s - 1)
-    why = []
-    if dl > RATE_TOLERANCE:
-        why.append(f"line rate {float(m.line_rate_hz) / 1e3:.3f} kHz")
-    if dr > RATE_TOLERANCE:
-        why.append(f"refresh {float(m.refresh_hz):.3f} Hz")
-    if m.vertical.total != mon.lines_per_frame:
-        why.append(f"{m.vertical.total} lines per frame")
-    if m.horizontal.sync_polarity != mon.hsync_polarity:
-        why.append(f"hsync {m.horizontal.sync_polarity}")
-    if m.vertical.sync_polarity != mon.vsync_polarity:
-        why.append(f"vsync {m.vertical.sync_polarity}")
-    if m.vertical.sync != mon.vsync_lines:
-        why.append(f"vsync {m.vertical.sync} lines")
-    if dw > WIDTH_TOLERANCE:
-        why.append(f"hsync {m.horizontal.sync} pixels")
-    score = dl + dr + dw + 0.5 * len(why)
-    return not why, score, "it has " + ", ".join(why) if why else ""
-
-
-def name_mode(mon: Monitor, modes: tuple[Mode, ...] | None = None) -> None:
-    """Fill in ``mon.mode`` (and ``also``) or ``mon.nearest`` from the measured figures."""
-    candidates = []
-    for m in modes if modes is not None else library():
-        ok, score, why = _mode_distance(m, mon)
-        candidates.append((not ok, score, m, why))
-    candidates.sort(key=lambda c: (c[0], c[1]))
-    bad, _, best, why = candidates[0]
-    if bad:
-        mon.nearest, mon.nearest_why = best, why
-        return
-    mon.mode = best
-    mon.also = tuple(m for b, _, m, _ in candidates[1:] if not b)
-
-
 def to_8bit(level: np.ndarray, bits: int) -> np.ndarray:
     full = (1 << bits) - 1
     return ((level * 255 + full // 2) // full).astype(np.uint8)
 
 
-def watch(pins: Pins, *, monitor_range: tuple[tuple[float, float], tuple[float, float]] | None = None,
-          modes: tuple[Mode, ...] | None = None) -> Monitor:  # fmt: skip
-    """Measure, name, lock and sample: everything a monitor does with ``pins``."""
+
+
+def watch(pins: Pins, *, monitor_range: Range | None = None, modes: tuple[Mode, ...] | None = None,
+          spec: Spec | None = None) -> Monitor:  # fmt: skip
+    """Measure, name, lock and sample: everything a monitor does with ``pins``.
+
+    ``spec`` is the timing the design is meant to send (its porches were chosen
+    there); without it (a user's own simulation) only the monitor's view is judged.
+    """
     hp, vp = _pulses(pins.hsync), _pulses(pins.vsync)
-    mon = read_syncs(pins.period_s, hp, vp, modes=modes)
+    size = None
+    if pins.de is not None and vp is not None and len(vp.leading) >= 2:
+        widths = _runs(pins.de, int(vp.leading[0]), int(vp.leading[1]))[1]
+        size = (int(np.bincount(widths).argmax()), len(widths)) if len(widths) else None
+    mon = read_syncs(pins.period_s, hp, vp, modes=modes, size=size)
     if hp is None or mon.line_cycles is None:
         return mon
-    return _finish(mon, pins, mon.mode, hp, vp, monitor_range)
+    _finish(mon, pins, hp, vp, monitor_range, spec)
+    return mon
 
 
 def read_syncs(period_s: float, hp: Pulses | None, vp: Pulses | None, *,
-               modes: tuple[Mode, ...] | None = None) -> Monitor:  # fmt: skip
-    """Steps 1-3 from the sync pulses alone: polarities, rates, widths, jitter, the mode's name."""
-    mon = Monitor(period_s=period_s)
+               modes: tuple[Mode, ...] | None = None,
+               size: tuple[int, int] | None = None) -> Monitor:  # fmt: skip
+    """Steps 1-3 from the sync pulses alone (and de's size, to find the nearest mode)."""
+    mon = Monitor(period_s=period_s, size=size)
     if hp is None or len(hp.leading) < 2:
         mon.problems.append("no hsync: fewer than two hsync pulses seen")
         return mon
@@ -208,42 +218,153 @@ def read_syncs(period_s: float, hp: Pulses | None, vp: Pulses | None, *,
     if lines.denominator != 1:
         mon.problems.append(f"a frame is not a whole number of lines: {float(lines):.3f}")
     mon.vsync_lines = round(vp.widths[0] / mon.line_cycles) if len(vp.widths) else None
-    name_mode(mon, modes)
+    got = Measured(period_s, mon.line_rate_hz, mon.refresh_hz, mon.lines_per_frame, mon.hsync_polarity,
+                   mon.vsync_polarity, mon.hsync_cycles, mon.vsync_lines, size)  # fmt: skip
+    named = name_mode(got, modes if modes is not None else library())
+    mon.mode, mon.also = named.mode, named.also
+    mon.nearest, mon.nearest_why = named.nearest, named.nearest_why
+    if named.nearest is not None and named.nearest_rates_agree:
+        m = named.nearest
+        mon.problems.append(f"the rates are those of {m.name} ({m.source}) but the syncs are not: "
+                            f"{named.nearest_why}; a monitor may refuse the mode or take it for "
+                            "another")  # fmt: skip
     return mon
 
-
-def _finish(mon: Monitor, pins: Pins, mode: Mode | None, hp: Pulses, vp: Pulses | None,
-            monitor_range: tuple[tuple[float, float], tuple[float, float]] | None) -> Monitor:  # fmt: skip
+def _finish(mon: Monitor, pins: Pins, hp: Pulses, vp: Pulses | None, monitor_range: Range | None,
+            spec: Spec | None) -> None:  # fmt: skip
+    """Steps 4-6: the range, where de puts the picture, locking, sampling and judging."""
     if monitor_range is not None:
-        (lo, hi), (flo, fhi) = monitor_range
-        if mon.line_rate_hz is not None and not lo <= mon.line_rate_hz <= hi:
-            mon.problems.append(f"line rate {mon.line_rate_hz / 1e3:.3f} kHz is outside the monitor's "
-                                f"{lo / 1e3:g}-{hi / 1e3:g} kHz")  # fmt: skip
-        if mon.refresh_hz is not None and not flo <= mon.refresh_hz <= fhi:
-            mon.problems.append(f"refresh {mon.refresh_hz:.3f} Hz is outside the monitor's "
-                                f"{flo:g}-{fhi:g} Hz")  # fmt: skip
+        _check_range(mon, monitor_range)
     if vp is None or len(vp.leading) < 2:
-        return mon
+        return
     # The frame that begins after the first vsync leading edge.
     v_edge = int(vp.leading[0])
     slack = (mon.line_cycles or 8) // 8
     j0 = int(np.searchsorted(hp.leading, v_edge - slack))
     if j0 >= len(hp.leading):
         mon.problems.append("the run ends before the picture does")
-        return mon
+        return
     offset = int(hp.leading[j0]) - v_edge
     if offset:
         mon.notes.append(f"vsync leading edge comes {offset} clocks before the hsync leading edge of "
                          "its line; DMT and CTA-861 put them together")  # fmt: skip
+    meant = Place.of(spec.horizontal, spec.vertical) if spec is not None else None
     if pins.de is not None:
         _de_jitter(mon, pins.de, vp)
-    if mode is not None:
-        _sample_mode(mon, pins, mode, hp, j0)
+        mon.place = _de_place(mon, pins.de, hp, j0, int(vp.leading[1]))
+        if meant is not None and mon.place is not None:
+            _check_meant(mon, mon.place, meant)
+    if mon.mode is not None:
+        _lock(mon, pins, mon.mode, hp, j0, meant)
     elif pins.de is not None:
-        _sample_de(mon, pins, int(vp.leading[0]), int(vp.leading[1]))
+        _sample_de(mon, pins, v_edge, int(vp.leading[1]))
     else:
         mon.problems.append("no standard mode and no de: cannot place the picture")
-    return mon
+
+
+def _check_range(mon: Monitor, monitor_range: Range) -> None:
+    (lo, hi), (flo, fhi) = monitor_range
+    if mon.line_rate_hz is not None and not lo <= mon.line_rate_hz <= hi:
+        mon.problems.append(f"line rate {mon.line_rate_hz / 1e3:.3f} kHz is outside the monitor's "
+                            f"{lo / 1e3:g}-{hi / 1e3:g} kHz")  # fmt: skip
+    if mon.refresh_hz is not None and not flo <= mon.refresh_hz <= fhi:
+        mon.problems.append(f"refresh {mon.refresh_hz:.3f} Hz is outside the monitor's {flo:g}-{fhi:g} Hz")
+
+
+def _runs(de: np.ndarray, start: int, end: int) -> tuple[np.ndarray, np.ndarray]:
+    """Start (from ``start``) and length of each run of de high in ``de[start:end]``."""
+    change = np.diff(np.concatenate([[0], de[start:end].astype(np.int8), [0]]))
+    rises = np.flatnonzero(change == 1)
+    return rises, np.flatnonzero(change == -1) - rises
+
+
+def _de_place(mon: Monitor, de: np.ndarray, hp: Pulses, j0: int, end: int) -> Place | None:
+    """Where de puts the frame's picture (None when de never rises); runs of unequal length are a problem."""
+    start = int(hp.leading[j0])
+    rises, widths = _runs(de, start, end)
+    if len(rises) == 0:
+        return None
+    if widths.min() != widths.max():
+        mon.problems.append(f"de runs differ in length within a frame: {widths.min()} to {widths.max()}")
+    first = start + int(rises[0])
+    k = int(np.searchsorted(hp.leading, first, side="right")) - 1
+    return Place(first - int(hp.leading[k]), k - j0 + 1, int(np.bincount(widths).argmax()), len(rises))
+
+
+def _check_meant(mon: Monitor, got: Place, meant: Place) -> None:
+    """de must be where the spec's porches put it, and of the spec's size."""
+    wrong = []
+    if got.column != meant.column:
+        wrong.append(f"de starts {got.column} clocks after the hsync leading edge, the spec's sync + "
+                     f"back porch is {meant.column} (picture shifted by "
+                     f"{count(got.column - meant.column, 'pixel')})")  # fmt: skip
+    if got.line != meant.line:
+        wrong.append(f"de starts {count(got.line, 'line')} after the vsync leading edge's line, the spec's "
+                     f"vertical sync + back porch is {meant.line} (picture shifted by "
+                     f"{count(got.line - meant.line, 'line')})")  # fmt: skip
+    if got.width != meant.width:
+        wrong.append(f"de is {got.width} pixels wide, the spec has {meant.width}")
+    if got.lines != meant.lines:
+        wrong.append(f"de is high on {count(got.lines, 'line')}, the spec has {meant.lines}")
+    if wrong:
+        mon.problems.append("the design does not send its spec's timing: " + "; ".join(wrong))
+
+
+def _moved(dx: int, dy: int) -> tuple[str, str]:
+    """("7 pixels later and 2 lines lower", "7 pixels left and 2 lines up") for an offset."""
+    where, move = [], []
+    if dx:
+        where.append(f"{count(abs(dx), 'pixel')} {'later' if dx > 0 else 'earlier'}")
+        move.append(f"{count(abs(dx), 'pixel')} {'left' if dx > 0 else 'right'}")
+    if dy:
+        where.append(f"{count(abs(dy), 'line')} {'lower' if dy > 0 else 'higher'}")
+        move.append(f"{count(abs(dy), 'line')} {'up' if dy > 0 else 'down'}")
+    return " and ".join(where), " and ".join(move)
+
+
+def _lock(mon: Monitor, pins: Pins, mode: Mode, hp: Pulses, j0: int, meant: Place | None) -> None:
+    """Lock on ``mode``: judge de against it, say what a monitor does with the picture's place, sample."""
+    h, v = mode.horizontal, mode.vertical
+    std = Place.of(h, v)
+    got = mon.place
+    if got is not None and (got.width, got.lines) != (std.width, std.lines):
+        msg = f"de region does not match the {h.active}x{v.active} picture the syncs imply"
+        if got.width != std.width:
+            msg += f"; de is {got.width} pixels wide, the mode has {h.active}"
+        if got.lines != std.lines:
+            msg += f"; de is high on {got.lines} of the mode's {v.active} lines"
+        mon.problems.append(msg)
+    at = got or meant or std
+    if mon.line_cycles != h.total:
+        mon.notes.append(f"a line has {mon.line_cycles} clocks where {mode.name} has {h.total}: a digital "
+                         "input follows the pixel clock; an analog monitor must set its sampling clock "
+                         f"to {mon.line_cycles} per line (its auto-adjust does) or it resamples the "
+                         "picture")  # fmt: skip
+    dx, dy = at.column - std.column, at.line - std.line
+    mon.offset = (dx, dy)
+    if dx or dy:
+        where, move = _moved(dx, dy)
+        note = (f"the picture starts {where} than {mode.name} puts it (at {at.column} clocks after the "
+                f"hsync leading edge and {at.line} lines after the vsync line; the mode's sync + back "
+                f"porch is {std.column} and {std.line}): an analog (VGA) monitor recentres it within its "
+                f"adjustment range, moving it {move}; a digital input (DVI, a panel) places it by de "
+                "and shows it as sent")  # fmt: skip
+        if meant is None:
+            note += "; no spec was given to say whether these porches are meant"
+        mon.notes.append(note)
+    first_line = j0 + at.line - 1
+    if first_line + v.active > len(hp.leading):
+        return mon.problems.append("the run ends before the picture does")
+    idx = hp.leading[first_line:first_line + v.active][:, None] + (at.column + np.arange(h.active))[None, :]
+    if idx.max() >= pins.cycles:
+        return mon.problems.append("the run ends before the picture does")
+    mon.image = _image(pins, idx)
+    if not (dx or dy):
+        mon.placed_by = f"the syncs and {mode.name}'s porches"
+    elif got is not None:
+        mon.placed_by = "de, as a digital input does (an analog monitor shows the same once recentred)"
+    else:
+        mon.placed_by = "the syncs and the spec's porches, recentred as an analog monitor does"
 
 
 def _de_jitter(mon: Monitor, de: np.ndarray, vp: Pulses) -> None:
@@ -260,76 +381,14 @@ def _de_jitter(mon: Monitor, de: np.ndarray, vp: Pulses) -> None:
                             "vsync leading edge in different frames")  # fmt: skip
 
 
-def _sample_mode(mon: Monitor, pins: Pins, mode: Mode, hp: Pulses, j0: int) -> None:
-    h, v = mode.horizontal, mode.vertical
-    first_line = j0 + v.sync + v.back_porch - 1
-    if first_line + v.active > len(hp.leading):
-        mon.problems.append("the run ends before the picture does")
-        return
-    assert mon.line_cycles is not None
-    pitch = mon.line_cycles / h.total  # samples per mode pixel
-    cols = np.round((h.sync + h.back_porch + np.arange(h.active)) * pitch).astype(np.int64)
-    starts = hp.leading[first_line:first_line + v.active]
-    idx = starts[:, None] + cols[None, :]
-    if idx.max() >= pins.cycles:
-        mon.problems.append("the run ends before the picture does")
-        return
-    mon.image = _image(pins, idx)
-    mon.placed_by = f"the syncs and {mode.name}'s porches"
-    if pins.de is not None:
-        de = pins.de[idx]
-        if not de.all():
-            _de_mismatch(mon, pins, mode, hp, first_line, de)
-        # de outside the window the syncs imply
-        line_span = hp.leading[first_line - 1:first_line + v.active + 1]
-        total_de = int(pins.de[int(line_span[0]):int(line_span[-1])].sum())
-        if total_de != int(de.sum()) and de.all():
-            mon.problems.append(f"de is high on {total_de - int(de.sum())} pixels outside the "
-                                f"{h.active}x{v.active} area the syncs imply")  # fmt: skip
-
-
-def _de_mismatch(mon: Monitor, pins: Pins, mode: Mode, hp: Pulses, first_line: int, de: np.ndarray) -> None:
-    h, v = mode.horizontal, mode.vertical
-    assert pins.de is not None and mon.line_cycles is not None
-    rows = np.flatnonzero(de.any(axis=1))
-    msg = f"de region does not match the {h.active}x{v.active} picture the syncs imply"
-    # Where de starts on a line that has it, counted from that line's hsync leading edge.
-    for r in rows[:1]:
-        line = int(hp.leading[first_line + r])
-        run = pins.de[line:line + mon.line_cycles]
-        start = int(np.flatnonzero(run)[0]) if run.any() else None
-        if start is not None:
-            want = h.sync + h.back_porch
-            if start != want:
-                msg += (f": de starts {start} clocks after the hsync leading edge, the mode's sync + "
-                        f"back porch is {want} (picture shifted by {start - want} pixels)")  # fmt: skip
-            width = int(np.argmin(run[start:])) if not run[start:].all() else len(run) - start
-            if width != h.active:
-                msg += f"; de is {width} pixels wide, the mode has {h.active}"
-    if len(rows) and rows[0] != 0:
-        msg += f"; de begins {rows[0]} lines late"
-    if len(rows) and len(rows) != v.active and rows[0] == 0:
-        msg += f"; de is high on {len(rows)} of the mode's {v.active} lines"
-    if len(rows) == 0:
-        msg += "; de is low throughout"
-    mon.problems.append(msg)
-
-
 def _sample_de(mon: Monitor, pins: Pins, start: int, end: int) -> None:
+    """No mode to lock on: the picture is where de is, as a panel or a digital input takes it."""
     assert pins.de is not None
-    de = pins.de[start:end].astype(np.int8)
-    change = np.diff(np.concatenate([[0], de, [0]]))
-    rises = np.flatnonzero(change == 1)
-    falls = np.flatnonzero(change == -1)
+    rises, widths = _runs(pins.de, start, end)
     if len(rises) == 0:
-        mon.problems.append("de never goes high in a frame: no picture")
-        return
-    widths = falls - rises
+        return mon.problems.append("de never goes high in a frame: no picture")
     width = int(np.bincount(widths).argmax())
-    if widths.min() != widths.max():
-        mon.problems.append(f"de runs differ in length within a frame: {widths.min()} to {widths.max()}")
-    idx = (start + rises)[:, None] + np.arange(width)[None, :]
-    idx = np.minimum(idx, pins.cycles - 1)
+    idx = np.minimum((start + rises)[:, None] + np.arange(width)[None, :], pins.cycles - 1)
     mon.image = _image(pins, idx)
     mon.placed_by = "de (no standard mode to place it by the syncs)"
 

@@ -319,7 +319,11 @@ def _solve(given: dict[str, Node], keys: dict[str, Location],
     off = f"{'+' if res.error >= 0 else ''}{fixed(res.error * 100, 3)} %"
     landed = (f"target {fixed(res.target_refresh_hz, 3)} Hz, landed at "
               f"{fixed(res.refresh_hz, 3)} Hz ({off})")  # fmt: skip
-    bound = f"; limited by {', '.join(res.bounds)}" if res.bounds else ""
+    # The fitter names the clock bound in plain hertz; the note prints it as every frequency is.
+    raw = f"{res.pixel_clock_hz} Hz"
+    bounds = [b.removesuffix(raw) + hz(res.pixel_clock_hz) if b.startswith("pixel_clock_hz") else b
+              for b in res.bounds]  # fmt: skip
+    bound = f"; limited by {', '.join(bounds)}" if bounds else ""
     if not res.met:
         out.add(fit_where, "fit",
                 f"no values inside the datasheet ranges reach the target within "

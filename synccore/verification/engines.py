@@ -8,6 +8,7 @@ and ``builtin``, Amaranth's simulator on the Amaranth model of the same timing.
 from __future__ import annotations
 
 import contextlib
+import functools
 import tempfile
 import threading
 import time
@@ -18,7 +19,7 @@ from pathlib import Path
 from synccore.model import Event, Timing, parse_events, stop_count
 from synccore.spec import Spec
 from synccore.verification.measure import Figure, Row, compare, failures, measure
-from synccore.verification.tools import SIMULATORS, find
+from synccore.verification.tools import SIMULATORS, cocotb_problem, find, unusable
 
 ENGINES = (*SIMULATORS, "builtin")
 ENGINE_LANGUAGE = {"icarus": "Verilog", "ghdl": "VHDL-2008", "verilator": "Verilog",
@@ -57,10 +58,13 @@ class Report:
 
 
 def cocotb_missing() -> bool:
-    """True when cocotb (needed to run the real simulators) is not installed."""
-    import importlib.util
+    """True when cocotb (needed to run the real simulators) cannot load here."""
+    return _cocotb_problem() is not None
 
-    return importlib.util.find_spec("cocotb_tools") is None
+
+@functools.cache
+def _cocotb_problem() -> str | None:
+    return cocotb_problem()
 
 
 def available_engines() -> list[str]:
@@ -71,6 +75,11 @@ def available_engines() -> list[str]:
     if importlib.util.find_spec("amaranth") is not None:
         out.append("builtin")
     return out
+
+
+def unusable_engines() -> list[str]:
+    """One line per simulator that is installed but cannot run here: why, and the fix."""
+    return [line for line in (unusable(name) for name in SIMULATORS) if line is not None]
 
 
 def _poll(path: Path, engine: str, progress: Progress, stop: threading.Event) -> None:

@@ -29,7 +29,9 @@ def test_every_example_builds(example: Path, tmp_path: Path) -> None:
     name = yaml.safe_load(example.read_text())["name"]
     assert sorted(p.name for p in (tmp_path / "out").iterdir()) == [f"{name}.v", f"{name}.vhd"]
     assert "line rate" in out and "refresh" in out and "blanking share" in out
-    assert "Hardware:" in out  # the caution about I/O levels is always shown
+    # One caution, the one that fits what the example drives (its own comment says which).
+    kind = "Hardware (LCD panel)" if "panel" in example.stem else "Hardware (monitor)"
+    assert out.count("Hardware (") == 1 and kind in out, out
 
 
 def test_show_prints_summary_and_writes_nothing(tmp_path: Path, write_spec) -> None:  # type: ignore[no-untyped-def]
@@ -97,3 +99,33 @@ def test_entry_point_runs_as_module() -> None:
     proc = subprocess.run([sys.executable, "-m", "synccore", "--version"],
                           capture_output=True, text=True, check=True)  # fmt: skip
     assert proc.stdout.startswith("synccore, version")
+
+
+def test_new_writes_lead_1_for_the_first_light_design() -> None:
+    """docs/picture.md recommends lead 1: the pattern's one stage then meets de, nothing delayed."""
+    from synccore import loads
+
+    code, out, _ = invoke("new", "DMT 04h")
+    assert code == 0
+    assert "  lead: 1                 # x/y run this many cycles ahead; 1 fits a 1-stage pixel " \
+        "pipeline\n" in out
+    assert loads(out).core.lead == 1
+
+
+def test_fit_note_prints_the_clock_bound_as_a_frequency(tmp_path: Path) -> None:
+    """The typical porches want 60 Hz x 1000 x 535 = 32.1 MHz, above the 30 MHz maximum."""
+    spec = tmp_path / "panel.yaml"
+    spec.write_text(
+        "name: panel\n"
+        "pixel_clock_hz: {min: 25 MHz, typ: 28 MHz, max: 30 MHz}\n"
+        "horizontal: {active: 800, front_porch: {min: 24, typ: 96, max: 240},\n"
+        "             sync: {min: 8, typ: 24, max: 48}, back_porch: 80, sync_polarity: negative}\n"
+        "vertical: {active: 480, front_porch: {min: 6, typ: 20, max: 120},\n"
+        "           sync: {min: 2, typ: 5, max: 10}, back_porch: 30, sync_polarity: negative}\n"
+        "fit: {refresh: 60}\n"
+    )  # made-up panel ranges (examples/panel_ranges.yaml's)
+    code, out, err = invoke("show", str(spec))
+    assert code == 0, err
+    flat = " ".join(out.split())
+    assert "limited by pixel_clock_hz at its max 30.000 MHz" in flat, flat
+    assert "30000000" not in flat

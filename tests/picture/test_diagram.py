@@ -42,7 +42,8 @@ def test_diagram_of_every_example(example: Path, tmp_path: Path) -> None:
             else:
                 want = f"{n * spec.horizontal.total / clock * 1e3:.3f} ms"
             assert lab.duration == want
-            assert f"{n} {unit}" in texts and want in texts, (lab, texts)
+            assert f"{n} {'line' if unit == 'lines' and n == 1 else unit}" in texts and want in texts, \
+                (lab, texts)
         assert f"({axis.sync_polarity})" in texts
     png = draw(spec, tmp_path / "t.png")
     with Image.open(png.path) as img:
@@ -64,3 +65,20 @@ def test_deterministic_svg(tmp_path: Path) -> None:
     a = draw(spec, tmp_path / "a.svg").path.read_text()
     b = draw(spec, tmp_path / "b.svg").path.read_text()
     assert a == b
+
+
+def test_one_line_is_singular(tmp_path: Path) -> None:
+    """DMT 800x600@60 has a vertical front porch of 1 line (samples.DMT_800x600, VESA DMT ID 09h)."""
+    from tests import samples
+
+    spec = synccore.loads(samples.DMT_800x600)
+    svg = draw(spec, tmp_path / "t.svg")
+    porch = next(lab for lab in svg.labels if lab.axis == "vertical" and lab.part == "front porch")
+    # One line of 1056 pixels at 40 MHz: 26.4 us = 0.026 ms.
+    assert porch.line == "front porch: 1 line, 0.026 ms"
+    import re
+
+    texts = _svg_texts(svg.path)
+    assert re.search(r"\b1 line\b", texts) and not re.search(r"\b1 lines", texts)
+    sync = next(lab for lab in svg.labels if lab.axis == "vertical" and lab.part == "sync")
+    assert sync.amount == "4 lines"
