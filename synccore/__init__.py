@@ -4,8 +4,8 @@ A YAML timing description is read into a :class:`Spec` (:func:`load`,
 :func:`loads`), derived into a :class:`Timing` (:func:`timing`; the reference
 model every test checks against), written as Verilog-2001 and VHDL cores with
 optional benches, test-pattern design and clock wrapper (:func:`write`,
-:func:`plan_clock`), and measured in simulation (:func:`verify`).  Standard
-timings come from :func:`find_mode`.
+:func:`plan_clock`, :func:`adjusted_spec` when the board cannot make the clock), and
+measured in simulation (:func:`verify`).  Standard timings come from :func:`find_mode`.
 
 This package exports the curated API of :mod:`synccore.api` and nothing else;
 docs/api.md describes it with a worked example.
@@ -25,6 +25,8 @@ from synccore.api import (
     Timing,
     ToolError,
     __version__,
+    adjusted_spec,
+    adjusted_text,
     find_mode,
     json_schema,
     load,
@@ -51,6 +53,8 @@ __all__ = [
     "Timing",
     "ToolError",
     "__version__",
+    "adjusted_spec",
+    "adjusted_text",
     "find_mode",
     "json_schema",
     "load",

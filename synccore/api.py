@@ -19,8 +19,9 @@ from fractions import Fraction
 from pathlib import Path
 
 from synccore._version import __version__
-from synccore.clocking import FAMILIES, FAMILY_KEYS, Family
+from synccore.clocking import FAMILIES, FAMILY_KEYS, Family, advice
 from synccore.clocking.plan import ClockPlan, make_plan
+from synccore.clocking.report import miss_text
 from synccore.emit import render_verilog, render_vhdl
 from synccore.emit.files import (
     board_artifacts,
@@ -62,6 +63,8 @@ __all__ = [
     "Timing",
     "ToolError",
     "__version__",
+    "adjusted_spec",
+    "adjusted_text",
     "find_mode",
     "json_schema",
     "load",
@@ -82,6 +85,7 @@ def write(
     testbench: bool = False,
     pattern: str | None = None,
     clock: ClockPlan | None = None,
+    accept_clock_error: bool = False,
     force: bool = False,
 ) -> list[Path]:
     """Write the files of ``spec`` into ``out_dir``, all of them or none; return their paths.
@@ -91,7 +95,10 @@ def write(
     ``bars``, ``grid``, ``gradient``, ``checker``, ``edges``) adds the test-pattern
     generator and the first-light top level, ``<name>_pattern.*`` and ``<name>_top.*``.
     ``clock`` (a plan from :func:`plan_clock` for this spec) adds the PLL or
-    clock-enable wrapper ``<name>_clock.v``/``.vhd`` and its SDC or XDC constraints.
+    clock-enable wrapper ``<name>_clock.v``/``.vhd`` and its SDC or XDC constraints; a
+    plan that misses the tolerance (``clock.within_tolerance`` is false) is refused
+    unless ``accept_clock_error=True``: apply its adjustment instead
+    (:func:`adjusted_spec`, then plan and write that spec).
     ``pattern`` and ``clock`` together add the board top ``<name>_board.v``/``.vhd``
     (board clock pin, PLL or clock enable, reset synchroniser, first-light top, pins:
     it synthesises as it is), its pin file for the family to fill in (``.pcf``,
@@ -102,11 +109,12 @@ def write(
     synccore generated it, or with ``force=True``.
 
     Raises :class:`SpecError` with every problem when the spec cannot have what
-    was asked (the pattern design needs one pixel per clock and a minimum active
-    area; the clock-enable route needs ``core.clock_enable``) or when a file may
-    not be replaced; :class:`ToolError` when ``clock`` has no setting that reaches
-    the core clock; ``ValueError`` for an unknown pattern or a plan made for
-    another spec.  Nothing is written when anything is raised.
+    was asked (the pattern design needs a minimum active area; the clock-enable
+    route needs ``core.clock_enable``) or when a file may not be replaced;
+    :class:`ToolError` when ``clock`` has no setting that reaches the core clock,
+    or misses the tolerance without ``accept_clock_error``; ``ValueError`` for an
+    unknown pattern or a plan made for another spec.  Nothing is
+    written when anything is raised.
     """
     problems: list[Problem] = []
     if pattern is not None:
@@ -121,6 +129,8 @@ def write(
         problems += _clock_enable_problems(clock)
     if problems:
         raise SpecError(problems)
+    if clock is not None and not accept_clock_error:
+        _check_tolerance(clock)
     artifacts = core_artifacts(spec)
     if testbench:
         artifacts += testbench_artifacts(spec)
@@ -143,6 +153,17 @@ def _clock_enable_problems(plan: ClockPlan) -> list[Problem]:
     return [Problem(None, "core.clock_enable",
                     f"must be true for the clock-enable route (ce every {enable.divide} "
                     f"cycles of {hz(plan.f_board)}), got false")]  # fmt: skip
+
+
+def _check_tolerance(plan: ClockPlan) -> None:
+    if plan.within_tolerance:
+        return
+    fix = ("apply its adjustment (synccore.adjusted_spec(plan)), plan that spec and write it"
+           if plan.adjustment is not None else
+           "no blanking adjustment brings it within tolerance: choose another board clock "
+           "or family")  # fmt: skip
+    raise ToolError(f"the clock plan misses: {miss_text(plan)}; {fix}, or pass "
+                    "accept_clock_error=True")  # fmt: skip
 
 
 def _check_reached(plan: ClockPlan) -> None:
@@ -282,6 +303,29 @@ def plan_clock(
     if strict:
         _check_reached(plan)
     return plan
+
+
+def adjusted_spec(plan: ClockPlan) -> Spec:
+    """The plan's spec with its adjustment applied: the porches it moved and the pixel clock
+    the route reaches (to the nearest Hz); name, core options, ports, board and colour kept.
+
+    Plan it again on the same board to write its files.  Raises :class:`ToolError` when the
+    plan offers no adjustment (it is within tolerance, or no raster within the bounds helps);
+    the message says which.
+    """
+    return advice.adjusted_spec(plan)
+
+
+def adjusted_text(plan: ClockPlan, *, command: str | None = None) -> str:
+    """:func:`adjusted_spec` as a complete, commented timing description (YAML text).
+
+    The header gives the reason: the board clock and route, the error before and after,
+    the tolerance assumed and its source, what moved within which bounds, and
+    ``command`` (how to build it) when given.  :func:`loads` of the text gives
+    :func:`adjusted_spec` back (with the same ``source``).  Raises :class:`ToolError`
+    like :func:`adjusted_spec`.
+    """
+    return advice.adjusted_text(plan, command=command)
 
 
 def find_mode(name: str) -> Mode:

@@ -6,7 +6,7 @@ import click
 
 from synccore.api import write
 from synccore.cli._common import console, fail, fail_spec, load_spec
-from synccore.cli.clock import board_options, build_plan, print_plan
+from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, print_plan, refusal
 from synccore.cli.show import print_summary
 from synccore.cli.verify import run_verify
 from synccore.errors import SpecError, ToolError
@@ -60,6 +60,9 @@ def cautions(spec: Spec, *, tmds: bool = False) -> list[str]:
               help="Also write the clock wrapper OUT/<name>_clock.v/.vhd and its constraints; "
                    "with --pattern also the board top OUT/<name>_board.* and its pin file.")
 @board_options
+@click.option(ACCEPT_OPTION, "accept_clock_error", is_flag=True,
+              help="With --clock: write the wrapper even when the clock reached is outside "
+                   "the display's tolerance (otherwise refused, with the command that fixes it).")
 @click.option("--testbench", "with_testbench", is_flag=True,
               help="Also write self-checking test benches OUT/<name>_tb.v and OUT/<name>_tb.vhd.")
 @click.option("--verify", "then_verify", is_flag=True,
@@ -68,17 +71,19 @@ def cautions(spec: Spec, *, tmds: bool = False) -> list[str]:
               help="Also write a test-pattern generator and a first-light top level "
                    "(OUT/<name>_pattern.*, OUT/<name>_top.*).")
 def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: str | None,
-          family: str | None, no_pll: bool, with_testbench: bool, then_verify: bool,
-          pattern: str | None) -> None:  # fmt: skip
+          family: str | None, no_pll: bool, accept_clock_error: bool, with_testbench: bool,
+          then_verify: bool, pattern: str | None) -> None:  # fmt: skip
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = load_spec(spec)
     out = console(wide_pipe=True)
-    if not with_clock and (board_clock or family or no_pll):
-        fail("--board-clock, --family and --no-pll need --clock")
+    if not with_clock and (board_clock or family or no_pll or accept_clock_error):
+        fail(f"--board-clock, --family, --no-pll and {ACCEPT_OPTION} need --clock")
     plan = build_plan(s, board_clock, family, no_pll) if with_clock else None
+    if plan is not None and not plan.within_tolerance and not accept_clock_error:
+        fail(refusal(plan, spec, board_clock))
     try:
         written = write(s, out_dir, testbench=with_testbench, pattern=pattern, clock=plan,
-                        force=force)  # fmt: skip
+                        accept_clock_error=accept_clock_error, force=force)  # fmt: skip
     except SpecError as err:
         fail_spec(err)
     except ToolError as err:

@@ -2,29 +2,44 @@
 
 Thin, like :mod:`synccore.cli.main`: it picks the board clock and family
 (options first, then the spec's ``board`` section), asks
-:func:`synccore.api.plan_clock` for a plan and prints it.  Bad input is one
-line on stderr, naming the option, and exit status 2.
+:func:`synccore.api.plan_clock` for a plan and prints it; ``--write`` writes the
+plan's adjusted timing as a spec (:func:`synccore.api.adjusted_text`).  Bad input
+is one line on stderr, naming the option, and exit status 2.
 """
 
 from __future__ import annotations
 
 import json
+import os
+import shlex
 from collections.abc import Callable
 from fractions import Fraction
+from pathlib import Path
 from typing import Any, TypeVar
 
 import click
 from rich.console import Console
 from rich.markup import escape
 
-from synccore.api import plan_clock
+from synccore.api import adjusted_text, plan_clock
 from synccore.cli._common import console, fail, load_spec
 from synccore.clocking import FAMILY_KEYS
 from synccore.clocking.plan import ClockPlan
-from synccore.clocking.report import adjustment_facts, plan_dict, plan_facts, ppm_text, route_text
+from synccore.clocking.report import (
+    adjustment_facts,
+    miss_text,
+    plan_dict,
+    plan_facts,
+    ppm_text,
+    route_text,
+    tolerance_text,
+)
 from synccore.errors import ToolError
 from synccore.spec import Spec
 from synccore.units import fixed
+
+ACCEPT_OPTION = "--accept-clock-error"
+"""The ``build`` option that writes a clock plan outside the tolerance anyway."""
 
 F = TypeVar("F", bound=Callable[..., Any])
 
@@ -115,25 +130,88 @@ def print_plan(plan: ClockPlan, out: Console) -> None:
     else:
         out.print(f"No setting is within +/-{pct} % of the pixel clock.")
     if plan.adjustment is None:
-        out.print("No horizontal total within the porch bound (each porch +/-25 %) "
-                      "gives a reachable clock either.")  # fmt: skip
+        where = "datasheet ranges" if plan.spec.fit is not None else "porch bounds"
+        out.print(f"No raster within the {where} gives a reachable clock within "
+                  f"{tolerance_text(plan)} either.")  # fmt: skip
         return
-    out.print("Adjusting the horizontal total keeps line rate and refresh on target:")
+    out.print("Adjusting the blanking keeps line rate and refresh on target "
+              "(write it as a spec with --write FILE):")  # fmt: skip
     _print_facts(adjustment_facts(plan), out)
+
+
+def _frequency_arg(f: Fraction) -> str:
+    """A frequency as an option value, e.g. ``12MHz``, ``25.175MHz``."""
+    return fixed(f / 10**6, 6).rstrip("0").rstrip(".") + "MHz"
+
+
+def plan_options(plan: ClockPlan, board_clock: str | None) -> str:
+    """The ``clock``/``build`` options that make ``plan`` again, as shell words."""
+    board = board_clock if board_clock is not None else _frequency_arg(plan.f_board)
+    route = "--no-pll" if plan.family is None else f"--family {plan.family.key}"
+    return f"--board-clock {shlex.quote(board)} {route}"
+
+
+def adjusted_path(spec_path: str) -> str:
+    """Where ``build`` suggests writing the adjusted spec: beside the spec, ``_adjusted``."""
+    p = Path(spec_path)
+    return str(p.with_name(f"{p.stem}_adjusted.yaml"))
+
+
+def refusal(plan: ClockPlan, spec_path: str, board_clock: str | None) -> str:
+    """The one line ``build --clock`` refuses an out-of-tolerance plan with, and the fix."""
+    opts = plan_options(plan, board_clock)
+    if plan.adjustment is None:
+        return (f"--clock: {miss_text(plan)}; no blanking adjustment brings it within "
+                f"tolerance either (see `synccore clock {shlex.quote(spec_path)} {opts}`): "
+                f"choose another board clock or family, or pass {ACCEPT_OPTION}")  # fmt: skip
+    fixed_spec = adjusted_path(spec_path)
+    return (f"--clock: {miss_text(plan)}; fix it with `synccore clock "
+            f"{shlex.quote(spec_path)} {opts} --write {shlex.quote(fixed_spec)}`, then build "
+            f"{shlex.quote(fixed_spec)}; or pass {ACCEPT_OPTION}")  # fmt: skip
+
+
+def write_adjusted(plan: ClockPlan, spec_path: str, target: str, board_clock: str | None,
+                   force: bool) -> None:  # fmt: skip
+    """Write the adjusted spec to ``target`` whole (never half), or one line and exit 2."""
+    path = Path(target)
+    if path.exists() and not force:
+        fail(f"--write: {target} exists; use --force to overwrite it")
+    command = (f"synccore build {shlex.quote(target)} -o OUT --clock "
+               f"{plan_options(plan, board_clock)}")  # fmt: skip
+    try:
+        text = adjusted_text(plan, command=command)
+    except ToolError as err:
+        fail(f"--write: {err}")
+    partial = path.with_name(f".{path.name}.partial")
+    try:
+        partial.write_text(text, encoding="utf-8")
+        os.replace(partial, path)
+    except OSError as err:
+        partial.unlink(missing_ok=True)
+        fail(f"--write: cannot write {target}: {err.strerror}")
+    click.echo(f"wrote {target} (adjusted from {spec_path})", err=True)
 
 
 @click.command()
 @click.argument("spec", type=click.Path(dir_okay=False))
 @board_options
 @click.option("--json", "as_json", is_flag=True, help="Print the plan as JSON.")
+@click.option("--write", "write_to", default=None, metavar="FILE",
+              help="Write the adjusted timing (porches and the reached pixel clock) as a "
+                   "complete, commented spec to FILE.")
+@click.option("--force", is_flag=True, help="With --write: overwrite FILE if it exists.")
 def clock(spec: str, board_clock: str | None, family: str | None, no_pll: bool,
-          as_json: bool) -> None:  # fmt: skip
+          as_json: bool, write_to: str | None, force: bool) -> None:  # fmt: skip
     """Plan the core clock of SPEC from the board clock: PLL settings or a clock enable."""
     s = load_spec(spec)
+    if force and write_to is None:
+        fail("--force needs --write")
     try:
         plan = plan_for(s, board_clock, family, no_pll, strict=False)
     except BadOption as err:
         fail(str(err))
+    if write_to is not None:
+        write_adjusted(plan, spec, write_to, board_clock, force)
     if as_json:
         click.echo(json.dumps(plan_dict(plan), indent=2))
         return

@@ -17,8 +17,9 @@ import click
 from rich.table import Table
 
 from synccore.cli._common import FAILED, console, fail
-from synccore.spec import Axis, parse_frequency
+from synccore.spec import CoreOptions, Spec, parse_frequency
 from synccore.timings import formulas, modeline, modes
+from synccore.timings.writing import spec_text
 from synccore.units import fixed, hz, in_unit
 
 
@@ -76,62 +77,6 @@ _SIZE = re.compile(r"\s*([0-9]+)\s*x\s*([0-9]+)\s*@\s*([0-9]+(?:\.[0-9]+)?)\s*\Z
 
 def _default_name(width: int, height: int, rate: str) -> str:
     return f"timing_{width}x{height}_{rate.replace('.', 'p')}"
-
-
-def _clock_text(clock: Fraction) -> tuple[str, str]:
-    """The clock as the spec writes it (exact when whole Hz) and a comment if rounded."""
-    whole = round(clock)
-    if clock.denominator == 1:
-        mhz = modeline.clock_mhz_text(clock).rstrip("0").rstrip(".")
-        return f'"{mhz} MHz"', ""
-    mhz = modeline.clock_mhz_text(Fraction(whole)).rstrip("0").rstrip(".")
-    return f'"{mhz} MHz"', (f"  # exact: {clock.numerator}/{clock.denominator} Hz, "
-                            "rounded to 1 Hz")  # fmt: skip
-
-
-def _commented(text: str, comment: str) -> str:
-    return f"{text.ljust(_COMMENT_COLUMN)}# {comment}"
-
-
-_COMMENT_COLUMN = 26
-
-
-def _axis_yaml(label: str, unit: str, a: Axis) -> list[str]:
-    return [
-        f"{label}:",
-        _commented(f"  active: {a.active}", f"visible {unit}"),
-        _commented(f"  front_porch: {a.front_porch}", f"blank {unit} before the sync pulse"),
-        _commented(f"  sync: {a.sync}", "sync pulse width"),
-        _commented(f"  back_porch: {a.back_porch}", f"blank {unit} after the sync pulse"),
-        _commented(f"  sync_polarity: {a.sync_polarity}", "positive: high during the pulse"),
-    ]
-
-
-def spec_text(*, name: str, origin: str, notes: tuple[str, ...], clock: Fraction,
-              h: Axis, v: Axis) -> str:  # fmt: skip
-    """A complete, commented timing description in the explicit form."""
-    clock_value, clock_comment = _clock_text(clock)
-    refresh = clock / (h.total * v.total)
-    lines = [
-        f"# Timing description written by `synccore new` from {origin}.",
-        *(f"# Note: {n}" for n in notes),
-        f"# Totals: {h.total} x {v.total}; refresh {fixed(refresh, 3)} Hz; "
-        f"line rate {in_unit(clock / h.total, 'kHz')} kHz.",
-        "# Edit freely; `synccore show` checks it, `synccore build` turns it into HDL.",
-        f"name: {name}",
-        f"pixel_clock_hz: {clock_value}{clock_comment}",
-        *_axis_yaml("horizontal", "pixels", h),
-        *_axis_yaml("vertical", "lines", v),
-        "core:",
-        _commented("  pixels_per_clock: 1", "1, 2, 4 or 8"),
-        _commented("  clock_enable: false", "true adds a ce input"),
-        _commented("  reset: sync_high", "sync_high, sync_low, async_high or async_low"),
-        # 1: the first-light pattern's one pipeline stage then meets de undelayed (docs/picture.md).
-        _commented("  lead: 1", "x/y run this many cycles ahead; 1 fits a 1-stage pixel pipeline"),
-        "ports:",
-        _commented('  prefix: ""', "text put before every port name"),
-    ]
-    return "\n".join(lines) + "\n"
 
 
 @click.command("new")
@@ -198,7 +143,15 @@ def new_command(mode: str | None, out: str, method: str | None, video_optimized:
         origin = f"{found.source} ({found.name})"
         clock, h, v = found.pixel_clock_hz, found.horizontal, found.vertical
         notes = (found.note,) if found.note else ()
-    text = spec_text(name=name or default, origin=origin, notes=notes, clock=clock, h=h, v=v)
+    # lead 1: the first-light pattern's one pipeline stage then meets de undelayed (docs/picture.md).
+    spec = Spec(name=name or default, pixel_clock_hz=clock, horizontal=h, vertical=v,
+                core=CoreOptions(lead=1))
+    header = (f"Timing description written by `synccore new` from {origin}.",
+              *(f"Note: {n}" for n in notes))  # fmt: skip
+    _put_out(spec_text(spec, comments=header), out, force)
+
+
+def _put_out(text: str, out: str, force: bool) -> None:
     if out == "-":
         click.echo(text, nl=False)
         return

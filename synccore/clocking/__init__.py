@@ -3,7 +3,10 @@
 :mod:`.families` holds one data entry per FPGA family (its vendor's divider
 ranges and frequency limits); :mod:`.solve` finds the closest legal
 settings; :mod:`synccore.clocking.plan` (imported on its own, since it
-depends on the timing model) turns a spec and a board into a plan.
+depends on the timing model) turns a spec and a board into a plan, with
+:mod:`synccore.clocking.adjust` finding a raster the route can reach when it
+misses; :mod:`synccore.clocking.report` says it in words and
+:mod:`synccore.clocking.advice` writes the adjusted timing as a spec.
 """
 
 from synccore.clocking.families import FAMILIES, FAMILY_KEYS, Family, family

@@ -5,11 +5,16 @@ from __future__ import annotations
 from fractions import Fraction
 from typing import Any
 
+from synccore.clocking.adjust import Adjustment
 from synccore.clocking.plan import ClockPlan, Route
-from synccore.clocking.solve import EnableSetting, Setting
+from synccore.clocking.solve import TOLERANCE_SOURCE, EnableSetting, Setting
+from synccore.spec import Spec
 from synccore.units import fixed, hz, in_unit
 
-TOLERANCE_SOURCE = "VESA DMT (from memory)"
+__all__ = [
+    "TOLERANCE_SOURCE", "adjustment_facts", "miss_text", "percent_text", "plan_dict",
+    "plan_facts", "ppm_text", "route_text", "tolerance_text",
+]  # fmt: skip
 
 
 def ppm_text(ppm: Fraction) -> str:
@@ -65,11 +70,36 @@ def plan_facts(plan: ClockPlan) -> list[tuple[str, str]]:
         ("line rate", f"{in_unit(plan.line_rate_hz, 'kHz')} kHz "
                       f"(wanted {in_unit(t.line_rate_hz, 'kHz')} kHz)"),
         ("refresh", f"{fixed(plan.refresh_hz, 3)} Hz (wanted {fixed(t.refresh_hz, 3)} Hz)"),
-        ("tolerance", f"+/-{fixed(plan.tolerance * 100, 1)} % on the pixel clock, "
-                      f"{TOLERANCE_SOURCE}: "
-                      + ("within" if plan.within_tolerance else "OUTSIDE")),
+        ("tolerance", f"{tolerance_text(plan)} on the pixel clock, {plan.tolerance_source}: "
+                      + ("within" if abs(best.error) <= plan.tolerance else "OUTSIDE")),
     ]  # fmt: skip
+    r = plan.clock_range
+    if r is not None:
+        rows.append(("datasheet clock", f"{hz(r.min)} to {hz(r.max)}: "
+                                        + ("within" if plan.within_clock_range else "OUTSIDE")))
     return rows
+
+
+def tolerance_text(plan: ClockPlan) -> str:
+    """The tolerance as a signed band, e.g. ``+/-0.5 %``."""
+    return f"+/-{fixed(plan.tolerance * 100, 3).rstrip('0').rstrip('.')} %"
+
+
+def miss_text(plan: ClockPlan) -> str:
+    """Why the plan misses, in one clause: the error, the tolerance and its source."""
+    t = plan.timing
+    best = plan.best
+    if best is None:
+        return f"no setting reaches the pixel clock {hz(t.pixel_clock_hz)}"
+    px = plan.reached_pixel_hz
+    assert px is not None
+    text = (f"the clock reached, {hz(px)}, is {percent_text(best.error)} from the pixel clock "
+            f"{hz(t.pixel_clock_hz)}")  # fmt: skip
+    if abs(best.error) > plan.tolerance:
+        return f"{text}, outside {tolerance_text(plan)}, {plan.tolerance_source}"
+    r = plan.clock_range
+    assert r is not None and not plan.within_clock_range
+    return f"{text}, outside the datasheet's clock range {hz(r.min)} to {hz(r.max)}"
 
 
 def _no_setting_reason(plan: ClockPlan) -> str:
@@ -83,23 +113,58 @@ def _no_setting_reason(plan: ClockPlan) -> str:
     return "no legal setting reaches the output range"
 
 
+def _kept(spec: Spec, a: Adjustment) -> str:
+    moved = a.moved(spec)
+    if not any(m.endswith("back_porch") for m in moved):
+        return ("back porches and sync widths kept: the picture keeps its position relative "
+                "to the sync")  # fmt: skip
+    shifts = [f"{label} by {getattr(a, label).back_porch - getattr(spec, label).back_porch:+d}"
+              for label in ("horizontal", "vertical")
+              if getattr(a, label).back_porch != getattr(spec, label).back_porch]  # fmt: skip
+    return ("the front porches could not absorb the change alone: back porch moved "
+            f"({', '.join(shifts)}), so the picture moves that far relative to the sync")
+
+
+def _field_rows(spec: Spec, a: Adjustment) -> list[tuple[str, str]]:
+    rows = []
+    bounds = dict(a.bounds)
+    for path in a.moved(spec):
+        label, name = path.split(".")
+        before = getattr(getattr(spec, label), name)
+        after = getattr(getattr(a, label), name)
+        b = bounds[path]
+        rows.append((f"{label} {name.replace('_', ' ')}",
+                     f"{before} -> {after} (may take {b.low} to {b.high}: {b.source})"))
+    return rows
+
+
 def adjustment_facts(plan: ClockPlan) -> list[tuple[str, str]]:
-    """The suggested horizontal total, when the plan offers one."""
+    """The suggested raster, when the plan offers one: what moves, and the rates it gives."""
     a = plan.adjustment
     if a is None:
         return []
-    h = plan.spec.horizontal
-    return [
-        ("horizontal total", f"{h.total} -> {a.h_total} pixels (active {h.active} and sync "
-                             f"{h.sync} kept)"),
-        ("front porch", f"{h.front_porch} -> {a.front_porch}"),
-        ("back porch", f"{h.back_porch} -> {a.back_porch}"),
-        ("pixel clock", f"{hz(a.pixel_clock_hz)} keeps refresh exact; reached "
-                        f"{hz(a.route.f_out * plan.timing.ppc)}"),
+    spec, t = plan.spec, plan.timing
+    h, v = spec.horizontal, spec.vertical
+    rows = [("horizontal total", f"{h.total} -> {a.h_total} pixels")]
+    if a.v_total != v.total:
+        rows.append(("vertical total", f"{v.total} -> {a.v_total} lines"))
+    rows += _field_rows(spec, a)
+    line = (f"{in_unit(a.line_rate_hz, 'kHz')} kHz ({percent_text(a.line_rate_error)} from "
+            f"{in_unit(t.line_rate_hz, 'kHz')} kHz)")  # fmt: skip
+    if not a.judges_line_rate:
+        line += "; not judged: a panel fitted to its datasheet follows data enable"
+    rows += [
+        ("kept", _kept(spec, a)),
+        ("pixel clock", f"{hz(a.pixel_clock_hz)} (the spec's {hz(t.pixel_clock_hz)})"),
         ("setting", route_text(a.route)),
+        ("line rate", line),
         ("refresh", f"{fixed(a.refresh_hz, 3)} Hz ({percent_text(a.refresh_error)} from "
-                    f"{fixed(plan.timing.refresh_hz, 3)} Hz)"),
+                    f"{fixed(t.refresh_hz, 3)} Hz)"),
+        ("tolerance", f"{tolerance_text(plan)} on refresh"
+                      + (" and line rate" if a.judges_line_rate else "")
+                      + f", {plan.tolerance_source}: within"),
     ]  # fmt: skip
+    return rows
 
 
 def _json_number(v: Fraction | int) -> int | float:
@@ -140,10 +205,12 @@ def plan_dict(plan: ClockPlan) -> dict[str, Any]:
         "pixels_per_clock": t.ppc,
         "core_clock_hz": _json_number(t.core_clock_hz),
         "tolerance_ppm": _json_number(plan.tolerance * 10**6),
-        "tolerance_source": TOLERANCE_SOURCE,
+        "tolerance_source": plan.tolerance_source,
         "best": None if best is None else _route_dict(best),
         "runners_up": [_route_dict(s) for s in plan.settings[1:]],
         "within_tolerance": plan.within_tolerance,
+        "datasheet_clock_range_hz": None if plan.clock_range is None else [
+            _json_number(plan.clock_range.min), _json_number(plan.clock_range.max)],
         "line_rate_hz": None if plan.line_rate_hz is None else _json_number(plan.line_rate_hz),
         "refresh_hz": None if plan.refresh_hz is None else _json_number(plan.refresh_hz),
         "wanted_refresh_hz": _json_number(t.refresh_hz),
@@ -152,12 +219,17 @@ def plan_dict(plan: ClockPlan) -> dict[str, Any]:
     a = plan.adjustment
     if a is not None:
         out["adjustment"] = {
+            "horizontal": vars(a.horizontal).copy(),
+            "vertical": vars(a.vertical).copy(),
             "h_total": a.h_total,
-            "front_porch": a.front_porch,
-            "back_porch": a.back_porch,
+            "v_total": a.v_total,
+            "moved": list(a.moved(plan.spec)),
             "pixel_clock_hz": _json_number(a.pixel_clock_hz),
             "setting": _route_dict(a.route),
+            "line_rate_hz": _json_number(a.line_rate_hz),
             "refresh_hz": _json_number(a.refresh_hz),
+            "line_rate_error_ppm": round(float(a.line_rate_error * 10**6), 3),
             "refresh_error_ppm": round(float(a.refresh_error * 10**6), 3),
+            "line_rate_judged": a.judges_line_rate,
         }
     return out

@@ -26,6 +26,9 @@ from synccore.clocking.families import Family, ice40_filter_range
 MONITOR_TOLERANCE = Fraction(5, 1000)
 """±0.5 % on the pixel clock: VESA DMT, general timing requirements (from memory)."""
 
+TOLERANCE_SOURCE = "VESA DMT (from memory)"
+"""Where :data:`MONITOR_TOLERANCE` comes from, as every output names it."""
+
 
 def _plain(value: Fraction) -> int | Fraction:
     return int(value) if value.denominator == 1 else value
@@ -207,6 +210,10 @@ class EnableSetting(_Reached):
     def f_out(self) -> Fraction:
         """The rate at which the core advances: f_board / divide."""
         return self.f_board / self.divide
+
+
+Route = Setting | EnableSetting
+"""A way to the core clock: a PLL setting or a clock-enable division."""
 
 
 def solve_enable(f_board: Fraction, target: Fraction) -> EnableSetting:

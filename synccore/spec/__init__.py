@@ -37,7 +37,9 @@ from synccore.spec._types import (
     Board,
     Color,
     CoreOptions,
+    Fit,
     Spec,
+    ValueRange,
     from_dict,
     to_dict,
 )
@@ -48,8 +50,8 @@ __all__ = [
     "BASE_PORTS", "FAMILY_NAMES", "FIT_FIELDS", "FORMULA_FIELDS", "FORMULA_METHODS",
     "MAX_AXIS", "MAX_FILE_BYTES", "MAX_PIXEL_CLOCK_HZ", "PIXELS_PER_CLOCK", "POLARITIES",
     "RESETS", "SCALES", "SPEC_FIELDS", "VSYNC_ALIGNS",
-    "Axis", "Board", "Collector", "Color", "CoreOptions", "Field", "Located", "Node",
-    "Scalar", "Spec",
+    "Axis", "Board", "Collector", "Color", "CoreOptions", "Field", "Fit", "Located", "Node",
+    "Scalar", "Spec", "ValueRange",
     "check_section", "describe_node", "field_names", "from_dict", "identifier_problem",
     "load_file", "load_text", "parse_frequency", "to_dict", "top_mapping", "validate", "where",
 ]  # fmt: skip

@@ -101,6 +101,40 @@ class Color:
 
 
 @dataclass(frozen=True)
+class ValueRange:
+    """One datasheet range, ``min`` to ``max``, with ``typ`` when the datasheet gives one."""
+
+    min: Fraction
+    max: Fraction
+    typ: Fraction | None = None
+
+    def holds(self, value: int | Fraction) -> bool:
+        return self.min <= value <= self.max
+
+
+@dataclass(frozen=True)
+class Fit:
+    """What a spec fitted to datasheet ranges (``fit:``) started from.
+
+    ``ranges`` are the fields the document gave as ``{min, typ, max}``, by dotted path
+    (``"horizontal.front_porch"``, ``"pixel_clock_hz"``), in the document's order; a field
+    the document gave as one number is fixed by the datasheet and has no entry.  Later
+    stages (the clock plan's porch adjustment) stay inside them.  ``tolerance`` is the
+    fit's ``tolerance_percent`` as a share (0.005 for 0.5 %) when the document gives it,
+    None when it leaves it to the default.
+    """
+
+    ranges: tuple[tuple[str, ValueRange], ...]
+    tolerance: Fraction | None = None
+
+    def range_of(self, path: str) -> ValueRange | None:
+        for key, r in self.ranges:
+            if key == path:
+                return r
+        return None
+
+
+@dataclass(frozen=True)
 class Spec:
     """A validated timing description."""
 
@@ -117,6 +151,8 @@ class Spec:
     """What the resolution step adjusted or wants the user to know, one sentence each."""
     board: Board = Board()
     color: Color = Color()
+    fit: Fit | None = None
+    """The datasheet ranges and tolerance of a timing fitted with ``fit:``; None otherwise."""
     locations: Mapping[str, Location] = field(default_factory=dict, compare=False, repr=False)
     """Where the source file writes each field, by dotted path (``"horizontal.active"``; ``""``
     is the whole document), filled by the validator so that later checks can point into the
@@ -147,7 +183,30 @@ def to_dict(spec: Spec) -> dict[str, Any]:
         "port_prefix": spec.port_prefix,
         "source": spec.source,
         "color": vars(spec.color).copy(),
+        "fit": None if spec.fit is None else {
+            "ranges": {path: {k: _exact(v) for k, v in vars(r).items()}
+                       for path, r in spec.fit.ranges},
+            "tolerance": _exact(spec.fit.tolerance),
+        },
     }
+
+
+def _exact(value: Fraction | None) -> str | None:
+    return None if value is None else f"{value.numerator}/{value.denominator}"
+
+
+def _fraction(text: str | None) -> Fraction | None:
+    return None if text is None else Fraction(text)
+
+
+def _fit_from(data: dict[str, Any] | None) -> Fit | None:
+    if data is None:
+        return None
+    ranges = tuple(
+        (path, ValueRange(Fraction(r["min"]), Fraction(r["max"]), _fraction(r["typ"])))
+        for path, r in data["ranges"].items()
+    )
+    return Fit(ranges, _fraction(data["tolerance"]))
 
 
 def from_dict(data: dict[str, Any]) -> Spec:
@@ -161,4 +220,5 @@ def from_dict(data: dict[str, Any]) -> Spec:
         port_prefix=data["port_prefix"],
         source=data["source"],
         color=Color(**data.get("color", {})),
+        fit=_fit_from(data.get("fit")),
     )

@@ -15,7 +15,7 @@ from synccore.spec import _yaml as loader
 from synccore.spec._check import Collector, check_section, describe_node, field_names, where
 from synccore.spec._fields import SPEC_FIELDS, Field
 from synccore.spec._names import identifier_problem
-from synccore.spec._types import BASE_PORTS, MAX_AXIS, Axis, Board, Color, CoreOptions, Spec
+from synccore.spec._types import BASE_PORTS, MAX_AXIS, Axis, Board, Color, CoreOptions, Fit, Spec
 
 
 def top_mapping(doc: loader.Node) -> loader.Located:
@@ -32,12 +32,14 @@ def validate(
     source: str = "<string>",
     origin: str = "",
     notes: tuple[str, ...] = (),
+    fit: Fit | None = None,
     earlier: Sequence[Problem] = (),
 ) -> Spec:
     """Check an explicit-form document; raise :class:`SpecError` with every problem.
 
-    ``origin`` and ``notes`` say where a resolved timing came from; ``earlier`` are the
-    problems the resolution step found, reported together with the validator's own.
+    ``origin`` and ``notes`` say where a resolved timing came from, ``fit`` the datasheet
+    ranges it was fitted to; ``earlier`` are the problems the resolution step found,
+    reported together with the validator's own.
     """
     out = Collector()
     out.problems.extend(earlier)
@@ -65,6 +67,7 @@ def validate(
         notes=notes,
         board=Board(**values["board"]) if values["board"] else Board(),
         color=Color(**values["color"]) if values["color"] else Color(),
+        fit=fit,
         locations=_field_locations(top),
     )
 

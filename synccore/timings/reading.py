@@ -26,4 +26,4 @@ def loads(text: str, source: str = "<string>") -> Spec:
 def _read(doc: Node, source: str) -> Spec:
     resolved = resolve(top_mapping(doc))
     return validate(resolved.doc, source=source, origin=resolved.origin, notes=resolved.notes,
-                    earlier=resolved.problems)  # fmt: skip
+                    fit=resolved.fit, earlier=resolved.problems)  # fmt: skip

@@ -26,9 +26,11 @@ from synccore.spec import (
     Axis,
     Collector,
     Field,
+    Fit,
     Located,
     Node,
     Scalar,
+    ValueRange,
     check_section,
     describe_node,
     parse_frequency,
@@ -49,6 +51,7 @@ class Resolved:
     doc: Located
     origin: str = ""
     notes: tuple[str, ...] = ()
+    fit: Fit | None = None  # the datasheet ranges, when the timing was fitted to them
     problems: list[Problem] = field(default_factory=list)
 
 
@@ -202,15 +205,17 @@ def _ranges(given: dict[str, Node], keys: dict[str, Location], doc: Located,
         return
     ranges = _parse_ranges(range_nodes, out)
     target = _fit_target(fit_node, fit_where, range_nodes, out)
-    fit_at: dict[str, Location] = {}
-    if isinstance(fit_node, Located) and isinstance(fit_node.value, dict):
-        fit_at = {k: n.location for k, n in fit_node.value.items()}
+    fit_at: dict[str, Location] = ({k: n.location for k, n in fit_node.value.items()}
+        if isinstance(fit_node, Located) and isinstance(fit_node.value, dict) else {})  # fmt: skip
     solved = (_solve(given, keys, axes, ranges, target, fit_where, fit_at, out)
               if target else None)  # fmt: skip
     _write_chosen(given, axes, range_nodes, ranges, solved)
     if solved is not None:
         result.origin = "fitted to datasheet ranges"
         result.notes = tuple(solved["__notes__"])
+        kept = tuple((p, ValueRange(r.min, r.max, r.typ)) for p, r in ranges.items() if r)
+        tolerance = target["tolerance_percent"] if target and "tolerance_percent" in fit_at else None
+        result.fit = Fit(kept, None if tolerance is None else Fraction(tolerance) / 100)
 
 
 def _find_ranges(given: dict[str, Node]) -> tuple[dict[str, Located], dict[str, Located]]:

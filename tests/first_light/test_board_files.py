@@ -34,6 +34,8 @@ LOCATION = {
 }
 
 
+# These tests are about which files a board top brings; how close the clock comes is judged
+# elsewhere (tests/clocking, tests/cli/test_clock_cli.py), so they accept any plan's error.
 def _plan(key: str | None, mhz: int = 27, text: str = DMT_640) -> ClockPlan:
     spec = synccore.loads(text, "vga.yaml")
     return make_plan(spec, f_board=Fraction(mhz * 10**6), family=FAMILIES[key] if key else None)
@@ -46,7 +48,7 @@ def _names(paths: list[Path]) -> set[str]:
 @pytest.mark.parametrize("key", FAMILY_KEYS)
 def test_pattern_and_clock_add_the_board_top_and_its_pin_file(tmp_path: Path, key: str) -> None:
     plan = _plan(key)
-    names = _names(synccore.write(plan.spec, tmp_path, pattern="bars", clock=plan))
+    names = _names(synccore.write(plan.spec, tmp_path, pattern="bars", clock=plan, accept_clock_error=True))
     board = {"vga_board.v", "vga_board.vhd", "vga_board" + SUFFIX[key]}
     if SUFFIX[key] != ".xdc":
         board.add("vga_board.sdc")  # the 7 series' .xdc carries the timing itself
@@ -56,14 +58,14 @@ def test_pattern_and_clock_add_the_board_top_and_its_pin_file(tmp_path: Path, ke
 
 def test_the_board_top_needs_both_the_pattern_and_the_clock(tmp_path: Path) -> None:
     plan = _plan("ice40")
-    with_clock = _names(synccore.write(plan.spec, tmp_path / "a", clock=plan))
+    with_clock = _names(synccore.write(plan.spec, tmp_path / "a", clock=plan, accept_clock_error=True))
     with_pattern = _names(synccore.write(plan.spec, tmp_path / "b", pattern="bars"))
     assert not any("_board" in n for n in with_clock | with_pattern)
 
 
 def test_the_clock_enable_route_has_a_board_top_and_timing_but_no_pin_file(tmp_path: Path) -> None:
     plan = _plan(None, 100)
-    names = _names(synccore.write(plan.spec, tmp_path, pattern="bars", clock=plan))
+    names = _names(synccore.write(plan.spec, tmp_path, pattern="bars", clock=plan, accept_clock_error=True))
     assert {n for n in names if "_board" in n} == {"vga_board.v", "vga_board.vhd", "vga_board.sdc"}
     sdc = (tmp_path / "vga_board.sdc").read_text()
     # 100 MHz: a 10 ns period (common practice); no PLL, so no second clock
@@ -109,7 +111,7 @@ def test_the_clock_frequency_lines_the_open_tools_read() -> None:
 
 def test_the_sdc_names_the_board_tops_port_and_the_pll_net(tmp_path: Path) -> None:
     plan = plan_of(JOBS["ice40_hx8k_vga800"])
-    synccore.write(plan.spec, tmp_path, pattern="bars", clock=plan)
+    synccore.write(plan.spec, tmp_path, pattern="bars", clock=plan, accept_clock_error=True)
     sdc = (tmp_path / "vga800_board.sdc").read_text()
     # 12 MHz: 83.333 ns; 40.5 MHz: 24.691 ns (1 / f, common practice)
     assert re.findall(r"^create_clock .*$", sdc, re.M) == [
@@ -132,7 +134,7 @@ def test_cyclone_timing_derives_the_pll_clocks() -> None:
 @pytest.mark.parametrize("key", list(JOBS))
 def test_golden(tmp_path: Path, key: str) -> None:
     plan = plan_of(JOBS[key])
-    for path in synccore.write(plan.spec, tmp_path, pattern="bars", clock=plan):
+    for path in synccore.write(plan.spec, tmp_path, pattern="bars", clock=plan, accept_clock_error=True):
         if "_board" in path.name:
             golden_files.check(Path("board", key, path.name), path.read_text())
 

@@ -41,7 +41,8 @@ PLANS = _plans()
 
 
 def _write(plan: ClockPlan, folder: Path) -> str:
-    synccore.write(plan.spec, folder, pattern="bars", clock=plan)
+    synccore.write(plan.spec, folder, pattern="bars", clock=plan,
+                   accept_clock_error=True)  # lint judges the text, not the clock error
     stub = stub_for(plan) if plan.family is not None else "`default_nettype none\n"
     (folder / "primitives.v").write_text(stub)
     (folder / "primitives_2001.v").write_text(stub.replace("= '0;", "= 0;"))  # for Icarus

@@ -82,10 +82,13 @@ def _ports(plan: ClockPlan, pc: PatternContext, f_board: str) -> tuple[BoardPin,
         BoardPin(core.port["de"], core.port["de"], "out", None, 0, "de",
                  "the panel's data-enable input (a VGA monitor has none: leave unwired)"),
     ]  # fmt: skip
+    words = len(pc.channels[0].slices) if pc.channels else 1  # pixels per clock
     for ch in pc.channels:
-        pins.append(BoardPin(ch.name, ch.name, "out", ch.bits, ch.msb, ch.base,
-                             f"{ch.base}, {ch.bits} bit{'s' if ch.bits != 1 else ''}, "
-                             f"most significant bit {ch.msb}"))  # fmt: skip
+        what = f"{ch.base}, {ch.bits} bit{'s' if ch.bits != 1 else ''}"
+        if words > 1:  # one word per pixel of the cycle, pixel 0 (leftmost) in the low bits
+            what += f" x {words} pixels, pixel 0 in bits {ch.slices[0][0]}:{ch.slices[0][1]}"
+        pins.append(BoardPin(ch.name, ch.name, "out", ch.bus_msb + 1, ch.bus_msb, ch.base,
+                             f"{what}, most significant bit {ch.bus_msb}"))  # fmt: skip
     return tuple(pins)
 
 
