@@ -116,6 +116,22 @@ def write(
     unknown pattern or a plan made for another spec.  Nothing is
     written when anything is raised.
     """
+    _check_request(spec, pattern, clock, accept_clock_error)
+    artifacts = core_artifacts(spec)
+    if testbench:
+        artifacts += testbench_artifacts(spec)
+    if pattern is not None:
+        artifacts += pattern_artifacts(spec, pattern)
+    if clock is not None:
+        artifacts += clock_artifacts(clock)
+    if clock is not None and pattern is not None:
+        artifacts += board_artifacts(clock, pattern)
+    return write_artifacts(artifacts, out_dir, force=force)
+
+
+def _check_request(spec: Spec, pattern: str | None, clock: ClockPlan | None,
+                   accept_clock_error: bool) -> None:  # fmt: skip
+    """Raise what :func:`write` documents when ``spec`` cannot have the files asked for."""
     problems: list[Problem] = []
     if pattern is not None:
         if pattern not in PATTERNS:
@@ -131,16 +147,6 @@ def write(
         raise SpecError(problems)
     if clock is not None and not accept_clock_error:
         _check_tolerance(clock)
-    artifacts = core_artifacts(spec)
-    if testbench:
-        artifacts += testbench_artifacts(spec)
-    if pattern is not None:
-        artifacts += pattern_artifacts(spec, pattern)
-    if clock is not None:
-        artifacts += clock_artifacts(clock)
-    if clock is not None and pattern is not None:
-        artifacts += board_artifacts(clock, pattern)
-    return write_artifacts(artifacts, out_dir, force=force)
 
 
 def _clock_enable_problems(plan: ClockPlan) -> list[Problem]:

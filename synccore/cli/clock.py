@@ -157,16 +157,17 @@ def adjusted_path(spec_path: str) -> str:
     return str(p.with_name(f"{p.stem}_adjusted.yaml"))
 
 
-def refusal(plan: ClockPlan, spec_path: str, board_clock: str | None) -> str:
-    """The one line ``build --clock`` refuses an out-of-tolerance plan with, and the fix."""
+def refusal(plan: ClockPlan, spec_path: str, board_clock: str | None, *,
+            option: str = "--clock", then: str = "build") -> str:  # fmt: skip
+    """The line ``build --clock`` (``view --board``) refuses an out-of-tolerance plan with, and the fix."""
     opts = plan_options(plan, board_clock)
     if plan.adjustment is None:
-        return (f"--clock: {miss_text(plan)}; no blanking adjustment brings it within "
+        return (f"{option}: {miss_text(plan)}; no blanking adjustment brings it within "
                 f"tolerance either (see `synccore clock {shlex.quote(spec_path)} {opts}`): "
                 f"choose another board clock or family, or pass {ACCEPT_OPTION}")  # fmt: skip
     fixed_spec = adjusted_path(spec_path)
-    return (f"--clock: {miss_text(plan)}; fix it with `synccore clock "
-            f"{shlex.quote(spec_path)} {opts} --write {shlex.quote(fixed_spec)}`, then build "
+    return (f"{option}: {miss_text(plan)}; fix it with `synccore clock "
+            f"{shlex.quote(spec_path)} {opts} --write {shlex.quote(fixed_spec)}`, then {then} "
             f"{shlex.quote(fixed_spec)}; or pass {ACCEPT_OPTION}")  # fmt: skip
 
 

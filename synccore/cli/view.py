@@ -10,10 +10,13 @@ import click
 from rich.table import Table
 
 from synccore.cli._common import FAILED, console, fail, fail_spec, load_spec
+from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, refusal
 from synccore.errors import SpecError
 from synccore.spec import Spec
+from synccore.units import hz
 
 if TYPE_CHECKING:  # the picture modules load numpy and Pillow: only when the command runs
+    from synccore.clocking.plan import ClockPlan
     from synccore.picture.monitor import Monitor
     from synccore.picture.run import Pins
 
@@ -47,20 +50,45 @@ VCD_HINT = ("give the SPEC too (synccore view SPEC --vcd ...) to check that the 
                    "vsync=top.vga_vs,de=top.de,red=top.r,green=top.g,blue=top.b.")
 @click.option("--work-dir", type=click.Path(file_okay=False),
               help="Keep the simulation folder here (default: a temporary folder).")
+@click.option("--board", "whole_board", is_flag=True,
+              help="Simulate the board top from its clock pin (Icarus): the PLL as a model that "
+                   "derives its clock from the primitive's parameters, the reset held until lock.")
+@board_options
+@click.option(ACCEPT_OPTION, "accept_clock_error", is_flag=True,
+              help="With --board: simulate even when the planned clock is outside the tolerance.")
 def view_command(spec: str | None, engine: str, pattern: str, out_png: str | None,
                  monitor_range: str | None, vcd: str | None, mapping: str | None,
-                 work_dir: str | None) -> None:  # fmt: skip
+                 work_dir: str | None, whole_board: bool, board_clock: str | None,
+                 family: str | None, no_pll: bool, accept_clock_error: bool) -> None:  # fmt: skip
     """Simulate SPEC's first-light design and look at it as a monitor would: rates, mode, PNG.
 
     With ``--vcd`` the pins come from your own simulation; SPEC, when given too, is the
-    timing that design is meant to send, and de is checked against its porches.
+    timing that design is meant to send, and de is checked against its porches.  With
+    ``--board`` the whole board top runs, from the oscillator pin through the PLL.
     """
     from synccore.picture.compare import check_pattern
     from synccore.picture.monitor import watch
 
     rng = _monitor_range(monitor_range)
     s = None
-    if vcd:
+    clock_notes: list[str] = []
+    clock_problems: list[str] = []
+    if not whole_board and (board_clock or family or no_pll or accept_clock_error):
+        fail(f"--board-clock, --family, --no-pll and {ACCEPT_OPTION} need --board")
+    if whole_board and (vcd or engine != "icarus"):
+        fail("--board: the board top runs in Icarus only (the PLL models are Verilog); "
+             "drop --vcd and --sim")  # fmt: skip
+    if whole_board:
+        if spec is None:
+            raise click.UsageError("--board needs a SPEC")
+        s = _load(spec)
+        plan = build_plan(s, board_clock, family, no_pll)
+        if not plan.within_tolerance and not accept_clock_error:
+            fail(refusal(plan, spec, board_clock, option="--board", then="view"))
+        name = s.name
+        title = f"{s.name}_board ({pattern}) from its {hz(plan.f_board)} pin on icarus"
+        pins = _simulate_board(plan, pattern, work_dir, clock_notes, clock_problems)
+    elif vcd:
         s = load_spec(spec) if spec is not None else None
         pins = _pins_from_vcd(vcd, mapping)
         name = Path(vcd).stem
@@ -73,6 +101,8 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
         title = f"{s.name} ({pattern}) on {engine}"
         pins = _simulate(s, pattern, engine, work_dir)
     mon = watch(pins, monitor_range=rng, spec=s)
+    mon.notes[:0] = clock_notes
+    mon.problems[:0] = clock_problems
     if s is not None and not vcd:
         check_pattern(mon, s, pattern)
     if s is None and mon.offset is not None and mon.offset != (0, 0):
@@ -128,6 +158,32 @@ def _simulate(s: Spec, pattern: str, engine: str, work_dir: str | None) -> Pins:
             return simulate(s, pattern, engine=engine, work_dir=Path(tmp))
     except ViewError as err:
         fail(str(err))
+
+
+def _simulate_board(plan: ClockPlan, pattern: str, work_dir: str | None, notes: list[str],
+                    problems: list[str]) -> Pins:  # fmt: skip
+    """The pins of the board top; the pixel clock it measured goes to ``notes`` or ``problems``."""
+    from synccore.picture.run import ViewError, simulate_board
+
+    try:
+        if work_dir:
+            run = simulate_board(plan, pattern, work_dir=Path(work_dir))
+        else:
+            with tempfile.TemporaryDirectory(prefix="synccore-board-") as tmp:
+                run = simulate_board(plan, pattern, work_dir=Path(tmp))
+    except ViewError as err:
+        fail(str(err))
+    assert plan.best is not None  # build_plan exits on a plan without a setting
+    planned = float(plan.best.f_out)
+    measured = run.f_core_hz
+    line = (f"core clock measured on the board top: {measured / 1e6:.6f} MHz from the "
+            f"{hz(plan.f_board)} pin (planned {hz(plan.best.f_out)})")  # fmt: skip
+    # the models round each edge to 1 fs: a few parts in 10^8 at most
+    if abs(measured - planned) > planned * 1e-6:
+        problems.append(line + ": the clock primitive's parameters do not give the planned clock")
+    else:
+        notes.append(line)
+    return run.pins
 
 
 def _show(mon: Monitor, title: str, target: Path, spec: Spec | None) -> None:

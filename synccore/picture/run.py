@@ -16,6 +16,11 @@ the design (:mod:`synccore.amaranth.first_light`) in Amaranth's simulator, and
 ``model`` computes the pins straight from the timing model (the same rules
 :func:`synccore.model.Timing.outputs_at` applies, over a whole run at once) and
 the pattern's Python definition, which is the quickest for large modes.
+
+:func:`simulate_board` runs the board top instead, from its clock pin (Icarus): the
+board bench drives the oscillator's frequency, the vendor's PLL primitive is
+replaced by a behavioural model that derives its output clock from the
+primitive's parameters, and the pixel clock the pins were sampled on is measured.
 """
 
 from __future__ import annotations
@@ -29,8 +34,16 @@ from pathlib import Path
 
 import numpy as np
 
-from synccore.emit.bench.view import BENCH, render_bench
-from synccore.emit.files import core_artifacts, pattern_artifacts
+from synccore.clocking.plan import ClockPlan
+from synccore.emit.bench.view import (
+    BENCH,
+    BOARD_BENCH,
+    PLL_MODELS,
+    render_bench,
+    render_board_bench,
+    render_pll_models,
+)
+from synccore.emit.files import board_artifacts, clock_artifacts, core_artifacts, pattern_artifacts
 from synccore.model import Timing
 from synccore.model.pattern import levels, picture_size, pixel_column
 from synccore.spec import Spec
@@ -148,6 +161,62 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
     if not screen.is_file():
         raise ViewError(f"{engine}: the bench wrote no {screen.name}")
     return read_screen(screen.read_text(), period_s=period_s, bits=bits, pixels_per_clock=ppc)
+
+
+@dataclass(frozen=True)
+class BoardRun:
+    """The pins of a board-top simulation and the pixel clock measured on them."""
+
+    pins: Pins
+    f_core_hz: float  # the core clock the samples were taken on, measured in the simulation
+    f_pixel_hz: float  # f_core_hz * pixels_per_clock
+
+
+def board_sources(plan: ClockPlan, pattern: str) -> dict[str, str]:
+    """File name -> Verilog text of the board top with everything under it, the models and bench."""
+    spec = plan.spec
+    files = {a.name: a.text for a in core_artifacts(spec) + pattern_artifacts(spec, pattern)
+             + clock_artifacts(plan) + board_artifacts(plan, pattern) if a.name.endswith(".v")}
+    order = [f"{spec.name}.v", f"{spec.name}_pattern.v", f"{spec.name}_top.v",
+             f"{spec.name}_clock.v", f"{spec.name}_board.v"]  # fmt: skip
+    out = {name: files[name] for name in order}
+    out[PLL_MODELS + ".v"] = render_pll_models()  # unused on the clock-enable route
+    out[BOARD_BENCH + ".v"] = render_board_bench(plan, pattern)
+    return out
+
+
+def simulate_board(plan: ClockPlan, pattern: str, *, work_dir: Path,
+                   cycles: int | None = None) -> BoardRun:  # fmt: skip
+    """Run ``plan``'s board top (clock pin -> PLL model -> reset -> pins) in Icarus.
+
+    ``cycles`` counts core clock cycles after the core leaves reset (default
+    :func:`cycles_needed`).  The pins' period is the measured one, not the spec's.
+    """
+    if find("icarus") is None:
+        raise ViewError(f"the board bench runs in Icarus Verilog, not found: {INSTALL_HINT['icarus']}")
+    spec = plan.spec
+    n = cycles or cycles_needed(spec)
+    work_dir.mkdir(parents=True, exist_ok=True)
+    files = board_sources(plan, pattern)
+    for name, text in files.items():
+        (work_dir / name).write_text(text, encoding="utf-8")
+    screen = (work_dir / "screen.txt").resolve()
+    screen.unlink(missing_ok=True)
+    _run(["iverilog", "-g2005", "-s", BOARD_BENCH, "-o", "board.vvp", *files], work_dir)
+    _run(["vvp", "-n", "board.vvp", f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir)
+    if not screen.is_file():
+        raise ViewError(f"icarus: the board bench wrote no {screen.name}")
+    lines = screen.read_text().splitlines()
+    times = [line.split() for line in lines if line.startswith("time ")]
+    if len(times) != 1 or n < 2:
+        raise ViewError("the board bench's record has no clock measurement")
+    first_ns, last_ns = float(times[0][1]), float(times[0][2])
+    f_core = (n - 1) / ((last_ns - first_ns) * 1e-9)
+    ppc = spec.core.pixels_per_clock
+    bits = (spec.color.red, spec.color.green, spec.color.blue)
+    text = "\n".join(line for line in lines if not line.startswith("time "))
+    pins = read_screen(text, period_s=1 / (f_core * ppc), bits=bits, pixels_per_clock=ppc)
+    return BoardRun(pins, f_core, f_core * ppc)
 
 
 def read_screen(text: str, *, period_s: float, bits: tuple[int, int, int],
