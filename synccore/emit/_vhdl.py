@@ -19,3 +19,10 @@ def port_type(width: int | None) -> str:
 
 def comment_lines(lines: tuple[str, ...]) -> list[str]:
     return [f"-- {line}".rstrip() for line in lines]
+
+
+def bits(value: int, width: int) -> str:
+    """A bit-string literal of ``value`` in ``width`` bits, e.g. ``"0101"``."""
+    if value < 0 or value >= 1 << width:
+        raise ValueError(f"{value} does not fit in {width} bits")
+    return '"' + format(value, f"0{width}b") + '"'

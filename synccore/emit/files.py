@@ -105,6 +105,20 @@ def board_artifacts(plan: ClockPlan, pattern: str) -> list[Artifact]:
     return out
 
 
+def link_artifacts(spec: Spec, pattern: str) -> list[Artifact]:
+    """The TMDS encoder and the link core ``<name>_tmds`` (first-light top -> encoders)."""
+    from synccore.emit.link.encoder import encoder_module, render_encoder
+    from synccore.emit.link.link_core import link_core_module, render_link_core
+
+    enc, core = encoder_module(spec), link_core_module(spec)
+    return [
+        Artifact(enc + ".v", render_encoder(spec, "verilog")),
+        Artifact(enc + ".vhd", render_encoder(spec, "vhdl")),
+        Artifact(core + ".v", render_link_core(spec, pattern, "verilog")),
+        Artifact(core + ".vhd", render_link_core(spec, pattern, "vhdl")),
+    ]
+
+
 def _generated_by_us(path: Path) -> bool:
     try:
         with path.open("r", encoding="utf-8", errors="replace") as f:

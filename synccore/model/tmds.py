@@ -182,3 +182,13 @@ def _decode_tables() -> tuple[np.ndarray, np.ndarray]:
 
 DECODE_KIND, DECODE_VALUE = _decode_tables()
 """Vector decoding: ``DECODE_KIND[words]`` and ``DECODE_VALUE[words]`` for numpy arrays of words."""
+
+
+def eight_bit(level: int, bits: int) -> int:
+    """A colour level of ``bits`` bits on the 8-bit scale TMDS carries: round(level * 255 / (2**bits - 1)).
+
+    The same scale the simulated monitor draws PNGs with, so a DVI picture and a VGA
+    picture of one design are equal pixel for pixel (2**bits - 1 is odd: no ties).
+    """
+    full = (1 << bits) - 1
+    return (level * 255 + full // 2) // full
