@@ -50,6 +50,9 @@ VCD_HINT = ("give the SPEC too (synccore view SPEC --vcd ...) to check that the 
                    "vsync=top.vga_vs,de=top.de,red=top.r,green=top.g,blue=top.b.")
 @click.option("--work-dir", type=click.Path(file_okay=False),
               help="Keep the simulation folder here (default: a temporary folder).")
+@click.option("--link", type=click.Choice(("dvi",)), default=None,
+              help="Send the picture over a TMDS link (DVI signalling) and receive it as a DVI "
+                   "sink does: symbol boundaries from the control tokens, decoding, then the monitor.")
 @click.option("--board", "whole_board", is_flag=True,
               help="Simulate the board top from its clock pin (Icarus): the PLL as a model that "
                    "derives its clock from the primitive's parameters, the reset held until lock.")
@@ -58,7 +61,7 @@ VCD_HINT = ("give the SPEC too (synccore view SPEC --vcd ...) to check that the 
               help="With --board: simulate even when the planned clock is outside the tolerance.")
 def view_command(spec: str | None, engine: str, pattern: str, out_png: str | None,
                  monitor_range: str | None, vcd: str | None, mapping: str | None,
-                 work_dir: str | None, whole_board: bool, board_clock: str | None,
+                 work_dir: str | None, link: str | None, whole_board: bool, board_clock: str | None,
                  family: str | None, no_pll: bool, accept_clock_error: bool) -> None:  # fmt: skip
     """Simulate SPEC's first-light design and look at it as a monitor would: rates, mode, PNG.
 
@@ -75,6 +78,9 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     clock_problems: list[str] = []
     if not whole_board and (board_clock or family or no_pll or accept_clock_error):
         fail(f"--board-clock, --family, --no-pll and {ACCEPT_OPTION} need --board")
+    if link and (vcd or whole_board or engine == "builtin"):
+        fail("--link dvi simulates the link core on icarus, ghdl, verilator or model; "
+             "drop --vcd, --board and --sim builtin")  # fmt: skip
     if whole_board and (vcd or engine != "icarus"):
         fail("--board: the board top runs in Icarus only (the PLL models are Verilog); "
              "drop --vcd and --sim")  # fmt: skip
@@ -88,6 +94,13 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
         name = s.name
         title = f"{s.name}_board ({pattern}) from its {hz(plan.f_board)} pin on icarus"
         pins = _simulate_board(plan, pattern, work_dir, clock_notes, clock_problems)
+    elif link:
+        if spec is None:
+            raise click.UsageError("--link needs a SPEC")
+        s = _load(spec)
+        name = s.name
+        title = f"{s.name} ({pattern}) over a DVI link on {engine}"
+        pins = _receive(s, pattern, engine, work_dir, clock_notes, clock_problems)
     elif vcd:
         s = load_spec(spec) if spec is not None else None
         pins = _pins_from_vcd(vcd, mapping)
@@ -107,7 +120,7 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
         check_pattern(mon, s, pattern)
     if s is None and mon.offset is not None and mon.offset != (0, 0):
         mon.notes.append(VCD_HINT)
-    _show(mon, title, Path(out_png or f"{name}_view.png"), s)
+    _show(mon, title, Path(out_png or f"{name}_view.png"), s, tmds=link is not None)
     if mon.problems:
         fail((f"PROBLEM {problem}" for problem in mon.problems), code=FAILED)
 
@@ -160,6 +173,29 @@ def _simulate(s: Spec, pattern: str, engine: str, work_dir: str | None) -> Pins:
         fail(str(err))
 
 
+def _receive(s: Spec, pattern: str, engine: str, work_dir: str | None, notes: list[str],
+             problems: list[str]) -> Pins:  # fmt: skip
+    """The pins a DVI sink decodes from the link core's lanes; its findings go to ``problems``."""
+    from synccore.picture.link import receive
+    from synccore.picture.link_run import simulate_link
+    from synccore.picture.run import ViewError
+
+    try:
+        if work_dir:
+            lanes = simulate_link(s, pattern, engine=engine, work_dir=Path(work_dir))
+        else:
+            with tempfile.TemporaryDirectory(prefix="synccore-link-") as tmp:
+                lanes = simulate_link(s, pattern, engine=engine, work_dir=Path(tmp))
+    except ViewError as err:
+        fail(str(err))
+    rec = receive(lanes)
+    notes += [f"the sink read {lanes.source}", *rec.notes]
+    problems += rec.problems
+    if rec.pins is None:
+        fail((f"PROBLEM {problem}" for problem in problems), code=FAILED)
+    return rec.pins
+
+
 def _simulate_board(plan: ClockPlan, pattern: str, work_dir: str | None, notes: list[str],
                     problems: list[str]) -> Pins:  # fmt: skip
     """The pins of the board top; the pixel clock it measured goes to ``notes`` or ``problems``."""
@@ -186,7 +222,7 @@ def _simulate_board(plan: ClockPlan, pattern: str, work_dir: str | None, notes: 
     return run.pins
 
 
-def _show(mon: Monitor, title: str, target: Path, spec: Spec | None) -> None:
+def _show(mon: Monitor, title: str, target: Path, spec: Spec | None, *, tmds: bool = False) -> None:
     """The monitor's summary table and notes, the PNG of the visible frame, the caution."""
     out = console()
     table = Table(title=f"simulated monitor: {title}", title_justify="left", show_header=False)
@@ -205,4 +241,4 @@ def _show(mon: Monitor, title: str, target: Path, spec: Spec | None) -> None:
     else:
         from synccore.cli.build import cautions
 
-        out.print("This is a simulated monitor. " + " ".join(cautions(spec)), style="dim")
+        out.print("This is a simulated monitor. " + " ".join(cautions(spec, tmds=tmds)), style="dim")
