@@ -29,6 +29,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from synccore.model.tmds import CONTROL, CONTROL_TOKENS, DATA, DECODE_KIND, DECODE_VALUE, INVALID, WORD_BITS
+from synccore.picture.monitor import count
 from synccore.picture.run import Pins
 
 ALIGN_SYMBOLS = 40_000
@@ -118,14 +119,19 @@ def _check_roles(words: np.ndarray, rec: Reception) -> None:
         rec.problems.append(f"lanes swapped: the sync tokens (C0/C1 changing) arrive on lane {changing[0]}; "
                             "DVI carries HSYNC and VSYNC on channel 0 (tmds_data[0], blue)")  # fmt: skip
     for k in (1, 2):
-        if k in changing or (values[k][kinds[k] == CONTROL] != 0).any():
+        sent = set(np.unique(values[k][kinds[k] == CONTROL]).tolist())
+        if sent == {1}:  # the C1C0 = 00 token read backwards is the 01 token
+            rec.problems.append(f"lane {k}: bit order reversed: every control token reads C1C0 = 01, the "
+                                "00 token bit 9 first; TMDS sends bit 0 of each symbol first (DVI 1.0, "
+                                "section 3.2)")  # fmt: skip
+        elif sent - {0}:
             rec.problems.append(f"lane {k}: control tokens other than C1C0 = 00 (DVI sends 00 on "
                                 "channels 1 and 2)")  # fmt: skip
     for k in range(3):
         bad = int((kinds[k] == INVALID).sum())
         if bad:
             first = int(np.flatnonzero(kinds[k] == INVALID)[0])
-            rec.problems.append(f"lane {k}: {bad} symbols no TMDS encoder sends, first at symbol {first} "
+            rec.problems.append(f"lane {k}: {count(bad, 'symbol')} no TMDS encoder sends, first at symbol {first} "
                                 f"({int(words[k][first]):#05x})")  # fmt: skip
 
 
@@ -151,8 +157,9 @@ def _check_skew(words: np.ndarray, rec: Reception) -> None:
 
 
 def _held(values: np.ndarray, control: np.ndarray) -> np.ndarray:
-    """Each control value held through the data periods that follow it."""
-    idx = np.where(control, np.arange(len(values)), 0)
+    """Each control value held through the data periods that follow it (the first one before it)."""
+    first = int(np.argmax(control)) if control.any() else 0
+    idx = np.where(control, np.arange(len(values)), first)
     np.maximum.accumulate(idx, out=idx)
     return values[idx]
 
