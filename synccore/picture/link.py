@@ -131,8 +131,8 @@ def _check_roles(words: np.ndarray, rec: Reception) -> None:
         bad = int((kinds[k] == INVALID).sum())
         if bad:
             first = int(np.flatnonzero(kinds[k] == INVALID)[0])
-            rec.problems.append(f"lane {k}: {count(bad, 'symbol')} no TMDS encoder sends, first at symbol {first} "
-                                f"({int(words[k][first]):#05x})")  # fmt: skip
+            rec.problems.append(f"lane {k}: {count(bad, 'symbol')} no TMDS encoder sends, first at "
+                                f"symbol {first} ({int(words[k][first]):#05x})")  # fmt: skip
 
 
 def _skew(de0: np.ndarray, dek: np.ndarray) -> int:
@@ -141,7 +141,8 @@ def _skew(de0: np.ndarray, dek: np.ndarray) -> int:
     if n <= 0:
         return 0
     base = de0[MAX_SKEW : MAX_SKEW + n]
-    scores = [int((dek[MAX_SKEW + s : MAX_SKEW + s + n] != base).sum()) for s in range(-MAX_SKEW, MAX_SKEW + 1)]
+    scores = [int((dek[MAX_SKEW + s : MAX_SKEW + s + n] != base).sum())
+              for s in range(-MAX_SKEW, MAX_SKEW + 1)]  # fmt: skip
     best = min(range(len(scores)), key=lambda i: (scores[i], abs(i - MAX_SKEW)))
     return best - MAX_SKEW
 

@@ -22,7 +22,7 @@ import numpy as np
 
 from synccore.emit.bench.link_view import LINK_BENCH, render_link_bench
 from synccore.emit.files import core_artifacts, link_artifacts, pattern_artifacts
-from synccore.model.tmds import encode_stream, eight_bit
+from synccore.model.tmds import eight_bit, encode_stream
 from synccore.picture.link import Lanes
 from synccore.picture.run import ViewError, _run, cycles_needed, model_pins
 from synccore.spec import Spec

@@ -154,7 +154,8 @@ def _header(spec: Spec, top: PatternContext, pattern: str, latency: int) -> tupl
     bits = {ch.base: ch.bits for ch in top.channels}
     scaled = [f"{b} {bits[b]} bits" for b in TMDS_CHANNELS if bits[b] != 8]
     if scaled:
-        lines.append("Colour scaled to 8 bits as round(level * 255 / (2^bits - 1)): " + ", ".join(scaled) + ".")
+        lines.append("Colour scaled to 8 bits as round(level * 255 / (2^bits - 1)): "
+                     + ", ".join(scaled) + ".")
     return tuple(lines)
 
 
