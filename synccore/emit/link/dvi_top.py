@@ -1,0 +1,136 @@
+"""The DVI top level ``<name>_dvi``: from the board's oscillator pin to the TMDS pins.
+
+It wires, in this order:
+
+* the board clock pin into ``<name>_link_clock``: one PLL makes the core clock and the
+  serial clock (5 x the pixel clock: 10 bits per pixel per lane, two per serial cycle
+  through DDR outputs), in phase; on iCE40 everything runs on the serial clock with a
+  clock enable one cycle in 5 x pixels_per_clock;
+* a reset held while the PLL is not locked or the board's reset button is pressed,
+  released through a two-flop synchroniser on the core clock;
+* the link core ``<name>_tmds`` (first-light design, colour to 8 bits, TMDS encoders);
+* the family's serialiser ``<name>_serialiser``, whose outputs are the TMDS pins.
+
+All names are computed here; the templates only lay them out.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from synccore.clocking.link import LinkPlan
+from synccore.emit import _verilog as vl
+from synccore.emit import _vhdl as vh
+from synccore.emit._jinja import environment
+from synccore.emit.core.context import header_lines as core_header
+from synccore.emit.link.link_core import LinkCoreContext, link_core_context
+from synccore.model import Timing
+from synccore.units import hz
+
+
+@dataclass(frozen=True)
+class DviPort:
+    name: str
+    direction: str  # in | out
+    msb: int | None  # None: one bit
+    comment: str
+
+
+@dataclass(frozen=True)
+class DviContext:
+    module: str
+    header: tuple[str, ...]
+    link: LinkCoreContext
+    clock: str  # the link clock wrapper's module
+    serialiser: str
+    ports: tuple[DviPort, ...]
+    board_clk: str
+    reset_n: str
+    pins: dict[str, str]  # clk_p, clk_n, data_p, data_n: the TMDS pins
+    single_clock: bool  # iCE40: the core runs on the serial clock with a ce from the wrapper
+    core_has_ce: bool
+    core_reset_inverted: bool
+
+
+def dvi_module(plan: LinkPlan) -> str:
+    return f"{plan.spec.name}_dvi"
+
+
+def _ports(plan: LinkPlan) -> tuple[DviPort, ...]:
+    p = plan.spec.port_prefix
+    return (
+        DviPort(p + "board_clk", "in", None, f"the board's {hz(plan.f_board)} oscillator"),
+        DviPort(p + "reset_n", "in", None, "reset button to ground, active low (optional: pulled up)"),
+        DviPort(p + "tmds_clk_p", "out", None, "TMDS clock pair, +"),
+        DviPort(p + "tmds_clk_n", "out", None, "TMDS clock pair, -"),
+        DviPort(p + "tmds_data_p", "out", 2, "TMDS data pairs 0 (blue, syncs), 1 (green), 2 (red), +"),
+        DviPort(p + "tmds_data_n", "out", 2, "TMDS data pairs, -"),
+    )
+
+
+def _header(plan: LinkPlan, link: LinkCoreContext, module: str) -> tuple[str, ...]:
+    spec = plan.spec
+    fam = plan.family
+    lines = [
+        core_header(Timing(spec))[0],
+        f"DVI top level '{module}': board clock -> {fam.primitive} in '{spec.name}_link_clock' ->",
+        f"reset synchroniser -> link core '{link.module}' -> serialiser '{spec.name}_serialiser' -> TMDS pins.",
+        "Synthesise this module as it is; fill in the pin file beside it.",
+        "",
+        *plan.lines(),
+        "",
+        f"Alignment: the core's lead aligns colour, syncs and de in '{link.top.top}'; they pass the",
+        f"encoders together. latency: {link.latency} core cycles from the core's syncs to the words,",
+        "then the serialiser's own (its header).",
+        "DVI signalling: no HDMI InfoFrames or audio; HDMI sinks accept it.",
+        "",
+        "Hardware caution: TMDS is a DC-coupled current-mode link terminated at the sink",
+        "(50 ohm to 3.3 V per line); use the pins and I/O standard the pin file names and",
+        "the board's schematic; the connector's 5 V and hot-plug lines are not FPGA pins.",
+    ]
+    return tuple(lines)
+
+
+def build_dvi_context(plan: LinkPlan, pattern: str) -> DviContext:
+    spec = plan.spec
+    link = link_core_context(spec, pattern)
+    module = dvi_module(plan)
+    p = spec.port_prefix
+    return DviContext(
+        module=module,
+        header=_header(plan, link, module),
+        link=link,
+        clock=f"{spec.name}_link_clock",
+        serialiser=f"{spec.name}_serialiser",
+        ports=_ports(plan),
+        board_clk=p + "board_clk",
+        reset_n=p + "reset_n",
+        pins={"clk_p": p + "tmds_clk_p", "clk_n": p + "tmds_clk_n", "data_p": p + "tmds_data_p",
+              "data_n": p + "tmds_data_n"},  # fmt: skip
+        single_clock=plan.family.key == "ice40",
+        core_has_ce=link.top.core.has_ce,
+        core_reset_inverted=link.top.core.reset_active == 0,
+    )
+
+
+def _aligned(rows: list[tuple[str, str]], mark: str) -> list[str]:
+    width = max(len(text) for text, _ in rows)
+    return [f"{text.ljust(width)}  {mark} {comment}" for text, comment in rows]
+
+
+def render_dvi_top(plan: LinkPlan, pattern: str, language: str) -> str:
+    """The DVI top of ``plan``'s spec with ``pattern`` in ``language`` ("verilog" or "vhdl")."""
+    c = build_dvi_context(plan, pattern)
+    n = len(c.ports)
+    if language == "verilog":
+        rows = [(f"{'input ' if q.direction == 'in' else 'output'} wire "
+                 f"{'      ' if q.msb is None else f'[{q.msb}:0]'.ljust(6)} {q.name}{',' if i < n - 1 else ''}",
+                 q.comment) for i, q in enumerate(c.ports)]  # fmt: skip
+        view = {"header": vl.comment_lines(c.header), "ports": _aligned(rows, "//")}
+        return environment().get_template("link/dvi_top.v.j2").render(c=c, v=view)
+    width = max(len(q.name) for q in c.ports)
+    rows = [(f"{q.name.ljust(width)} : {'in ' if q.direction == 'in' else 'out'} "
+             f"{vh.port_type(None if q.msb is None else q.msb + 1)}{';' if i < n - 1 else ''}", q.comment)
+            for i, q in enumerate(c.ports)]  # fmt: skip
+    view = {"header": vh.comment_lines(c.header), "ports": _aligned(rows, "--")}
+    return environment().get_template("link/dvi_top.vhd.j2").render(c=c, v=view)
