@@ -57,7 +57,7 @@ class LinkPlan:
     legal); ``core_factor`` = serial clock / core clock = 5 x ppc; ``core_param`` the
     vendor's name of the core clock's divider (None on iCE40, where a ce divides).
     The reached clocks are None when no setting exists.  ``bit_rate_hz`` is 10 x the
-    reached pixel clock (the wanted one without a setting).
+    spec's pixel clock: the rate per lane the link needs, judged against ``io``.
     """
 
     spec: Spec
@@ -166,7 +166,7 @@ def plan_link(spec: Spec, *, f_board: Fraction, family: Family | str) -> LinkPla
     serial = None if best is None else best.f_out
     pixel = None if serial is None else serial / SERIAL_FACTOR
     tolerance, source = tolerance_of(spec)
-    bit_rate = (wanted if pixel is None else pixel) * BITS_PER_PIXEL
+    bit_rate = wanted * BITS_PER_PIXEL
     io = IO_LIMITS[fam.key]
     fits = bit_rate <= io.rate
     return LinkPlan(
