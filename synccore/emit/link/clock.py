@@ -47,6 +47,9 @@ SERIAL_NET = "serial_clk"
 
 XDC_FAMILIES = ("xc7-mmcm", "xc7-pll")
 
+LOCKED = "pll_locked"
+"""The PLL's lock output inside the wrapper (VHDL-93 cannot read the output port)."""
+
 
 @dataclass(frozen=True)
 class LinkPort:
@@ -94,7 +97,7 @@ def link_clock_context(plan: LinkPlan) -> LinkClockContext:
     """The wrapper's context for the plan's best setting; ValueError without one."""
     if plan.setting is None or plan.serial_hz is None or plan.core_hz is None:
         raise ValueError("the link plan has no setting to emit")
-    prims = link_primitives(plan, {"clk_in": "clk_in", "locked": "locked"})
+    prims = link_primitives(plan, {"clk_in": "clk_in", "locked": LOCKED})
     has_ce = plan.core_tap.kind == "enable"
     core = "the serial clock; the core advances on ce" if has_ce else hz(plan.core_hz)
     ports = (
@@ -105,7 +108,7 @@ def link_clock_context(plan: LinkPlan) -> LinkClockContext:
           if has_ce else ()),
         LinkPort("locked", "out", "1 once the PLL is locked; hold the link in reset before"),
     )  # fmt: skip
-    internal: tuple[tuple[str, int | None], ...] = ((SERIAL, None),)
+    internal: tuple[tuple[str, int | None], ...] = ((SERIAL, None), (LOCKED, None))
     if not has_ce:
         internal += ((PIXEL, None),)
     return LinkClockContext(
