@@ -27,7 +27,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from fractions import Fraction
 
-from synccore.clocking.families import Family, family as family_named
+from synccore.clocking.families import Family
+from synccore.clocking.families import family as family_named
 from synccore.clocking.link_io import CORE_TAPS, IO_LIMITS, CoreTap, IoLimit
 from synccore.clocking.plan import tolerance_of
 from synccore.clocking.solve import Setting, solve, solve_tied

@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import dataclasses
 from fractions import Fraction
+from typing import TypeVar
 
 from synccore.clocking.link import LinkPlan
 from synccore.clocking.solve import Setting
@@ -33,9 +34,11 @@ PIXEL = "clk_pixel_pll"
 """Internal nets: the PLL's serial clock output and the core clock (both before the ports)."""
 
 
-def _insert_after(items: tuple[object, ...], name: str, new: tuple[object, ...]
-                  ) -> tuple[object, ...]:  # fmt: skip
-    at = [getattr(i, "name", None) for i in items].index(name) + 1
+T = TypeVar("T", Param, Pin)
+
+
+def _insert_after(items: tuple[T, ...], name: str, new: tuple[T, ...]) -> tuple[T, ...]:
+    at = [i.name for i in items].index(name) + 1
     return items[:at] + new + items[at:]
 
 
@@ -43,9 +46,9 @@ def _extend(inst: Instance, *, after_param: str, params: tuple[Param, ...], afte
             pins: tuple[Pin, ...], comments: dict[str, str]) -> Instance:  # fmt: skip
     """``inst`` with ``params`` and ``pins`` inserted, and the named pins' comments replaced."""
     new_pins = tuple(dataclasses.replace(p, comment=comments.get(p.name, p.comment))
-                     for p in _insert_after(inst.pins, after_pin, pins))  # type: ignore[attr-defined]
+                     for p in _insert_after(inst.pins, after_pin, pins))  # fmt: skip
     new_params = _insert_after(inst.params, after_param, params)
-    return dataclasses.replace(inst, params=new_params, pins=new_pins)  # type: ignore[arg-type]
+    return dataclasses.replace(inst, params=new_params, pins=new_pins)
 
 
 def _ecp5(plan: LinkPlan, s: Setting, base: Primitives) -> Primitives:
