@@ -20,6 +20,7 @@ from pathlib import Path
 
 from synccore._version import __version__
 from synccore.clocking import FAMILIES, FAMILY_KEYS, Family, advice
+from synccore.clocking.link import LinkPlan, plan_link
 from synccore.clocking.plan import ClockPlan, make_plan
 from synccore.clocking.report import miss_text
 from synccore.emit import render_verilog, render_vhdl
@@ -309,6 +310,25 @@ def plan_clock(
     if strict:
         _check_reached(plan)
     return plan
+
+
+def plan_dvi_link(
+    spec: Spec, board_clock_hz: int | float | Fraction | Decimal | str, family: str | None
+) -> LinkPlan:
+    """Plan a DVI link's serial clock (5 x the pixel clock) and core clock from one PLL.
+
+    Raises :class:`ToolError` for a board clock that is not a frequency, an unknown or
+    missing family (the link needs a PLL), and :class:`SpecError` when the family cannot
+    carry the spec's pixels_per_clock.  A plan that misses the tolerance or the I/O rating
+    is returned as such (``plan.ok`` is False); ``plan.problems`` holds the spec changes
+    the link still needs (iCE40: core.clock_enable), which
+    :func:`synccore.clocking.link.link_problems` also gives.
+    """
+    f_board = _board_clock(board_clock_hz)
+    fam = _family(family)
+    if fam is None:
+        raise ToolError("a DVI link needs a PLL: name the FPGA family", subject="family")
+    return plan_link(spec, f_board=f_board, family=fam)
 
 
 def adjusted_spec(plan: ClockPlan) -> Spec:

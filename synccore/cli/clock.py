@@ -21,9 +21,11 @@ import click
 from rich.console import Console
 from rich.markup import escape
 
-from synccore.api import adjusted_text, plan_clock
-from synccore.cli._common import console, fail, load_spec
+from synccore.api import adjusted_text, plan_clock, plan_dvi_link
+from synccore.cli._common import console, fail, fail_spec, load_spec
 from synccore.clocking import FAMILY_KEYS
+from synccore.clocking.link import LinkPlan
+from synccore.clocking.link_report import link_dict, link_facts
 from synccore.clocking.plan import ClockPlan
 from synccore.clocking.report import (
     adjustment_facts,
@@ -34,7 +36,7 @@ from synccore.clocking.report import (
     route_text,
     tolerance_text,
 )
-from synccore.errors import ToolError
+from synccore.errors import SpecError, ToolError
 from synccore.spec import Spec
 from synccore.units import fixed
 
@@ -193,20 +195,62 @@ def write_adjusted(plan: ClockPlan, spec_path: str, target: str, board_clock: st
     click.echo(f"wrote {target} (adjusted from {spec_path})", err=True)
 
 
+def link_plan_for(spec: Spec, board_clock: str | None, family: str | None) -> LinkPlan:
+    """The DVI link plan for the options; one line (or the spec's problems) and exit 2."""
+    try:
+        board, key = resolve(spec, board_clock, family, False)
+        return plan_dvi_link(spec, board, key)
+    except BadOption as err:
+        fail(str(err))
+    except SpecError as err:
+        fail_spec(err)
+    except ToolError as err:
+        fail(f"{_OPTION.get(err.subject, '--link')}: {err.message}")
+
+
+def print_link(plan: LinkPlan, out: Console) -> None:
+    """The link plan as terminal text: both clocks, the I/O verdict, suggestions."""
+    _print_facts(link_facts(plan), out)
+    if plan.setting is not None and len(plan.settings) > 1:
+        out.print("[bold]runners-up[/bold]")
+        for s in plan.settings[1:]:
+            out.print(f"  {escape(route_text(s))}  ({escape(ppm_text(s.ppm))})")
+
+
+def run_link(spec: Spec, board_clock: str | None, family: str | None, as_json: bool,
+             write_to: str | None) -> None:  # fmt: skip
+    """``clock --link dvi``: print the link plan (text or JSON)."""
+    if write_to is not None:
+        fail("--write: not available with --link")
+    plan = link_plan_for(spec, board_clock, family)
+    if as_json:
+        click.echo(json.dumps(link_dict(plan), indent=2))
+    else:
+        print_link(plan, console())
+
+
 @click.command()
 @click.argument("spec", type=click.Path(dir_okay=False))
 @board_options
+@click.option("--link", "link", type=click.Choice(["dvi"]), default=None,
+              help="Plan a link's clocks instead: dvi (serial clock = 5 x pixel clock and "
+                   "the core clock, from one PLL).")
 @click.option("--json", "as_json", is_flag=True, help="Print the plan as JSON.")
 @click.option("--write", "write_to", default=None, metavar="FILE",
               help="Write the adjusted timing (porches and the reached pixel clock) as a "
                    "complete, commented spec to FILE.")
 @click.option("--force", is_flag=True, help="With --write: overwrite FILE if it exists.")
 def clock(spec: str, board_clock: str | None, family: str | None, no_pll: bool,
-          as_json: bool, write_to: str | None, force: bool) -> None:  # fmt: skip
+          link: str | None, as_json: bool, write_to: str | None, force: bool) -> None:  # fmt: skip
     """Plan the core clock of SPEC from the board clock: PLL settings or a clock enable."""
     s = load_spec(spec)
     if force and write_to is None:
         fail("--force needs --write")
+    if link is not None:
+        if no_pll:
+            fail("--no-pll: a DVI link needs a PLL")
+        run_link(s, board_clock, family, as_json, write_to)
+        return
     try:
         plan = plan_for(s, board_clock, family, no_pll, strict=False)
     except BadOption as err:

@@ -133,18 +133,20 @@ def _between(values: tuple[Fraction, ...], low: Fraction | None, high: Fraction 
 
 
 def _settings(
-    fam: Family, f_in: Fraction, target: Fraction, window: tuple[Fraction, Fraction] | None
+    fam: Family, f_in: Fraction, target: Fraction, window: tuple[Fraction, Fraction] | None,
+    outputs: tuple[Fraction, ...] | None = None,
 ) -> list[Setting]:
     """Legal settings: those nearest ``target``, or (with a window) all with outputs inside it.
 
     Without a window, feedback from the VCO keeps, for every input divider and
     multiplier, the two output dividers around the ideal one; feedback from the
     output tries every multiplier (the output does not depend on the output
-    divider, which is set for the highest legal VCO).
+    divider, which is set for the highest legal VCO).  ``outputs`` narrows the output
+    dividers tried (sorted, a subset of the family's), for a second output tied to them.
     """
     found: list[Setting] = []
     mults = fam.multiplier.ratios
-    outs = fam.output_divider.ratios
+    outs = fam.output_divider.ratios if outputs is None else outputs
     vco, out_r = fam.vco_range, fam.output_range
     for d in fam.input_divider.ratios:
         pfd = f_in / d
@@ -196,6 +198,25 @@ def solve(fam: Family, f_in: Fraction, target: Fraction, *, count: int = 4) -> l
     if target <= 0 or not fam.input_range.holds(f_in):
         return []
     return _distinct(_settings(fam, f_in, target, None))[:count]
+
+
+def solve_tied(fam: Family, f_in: Fraction, target: Fraction, *, factor: int,
+               second: tuple[Fraction, ...], count: int = 4) -> list[Setting]:  # fmt: skip
+    """As :func:`solve`, for a synthesiser with a second output tied to the first.
+
+    The second output divides the same VCO by ``factor`` times the first's output
+    divider, which must be one of the ``second`` ratios (the second divider's legal
+    values).  Only output dividers allowing that are searched, so the result is the
+    closest among settings whose second divider is legal too, not a filter of the
+    unconstrained best.
+    """
+    if target <= 0 or not fam.input_range.holds(f_in):
+        return []
+    legal = set(second)
+    outs = tuple(o for o in fam.output_divider.ratios if o * factor in legal)
+    if not outs:
+        return []
+    return _distinct(_settings(fam, f_in, target, None, outs))[:count]
 
 
 @dataclass(frozen=True)

@@ -106,6 +106,12 @@ def _tied_low(*names: str) -> tuple[Pin, ...]:
     return tuple(_in(name, _level(0)) for name in names)
 
 
+# Public names of the value and pin helpers, for wrappers that extend these instances
+# (the DVI link clock in synccore.emit.link.clock).
+int_value, bits_value, str_value, real_value, level_value = _int, _bits, _str, _real, _level
+constant_in, tied_low = _in, _tied_low
+
+
 def _field(divider: Divider, counters: dict[str, int | Fraction]) -> Value:
     """A divider setting as the bit field the primitive declares."""
     assert divider.width is not None
@@ -118,7 +124,7 @@ def _field(divider: Divider, counters: dict[str, int | Fraction]) -> Value:
 ICE40_FILTER_RANGE_WIDTH = 3
 
 
-def _ice40(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
+def _ice40(f_board: Fraction, s: Setting, sig: Signals) -> Primitives:
     fam, c = s.family, s.counters()
     return Primitives((Instance("SB_PLL40_CORE", "pll", (
         Param("FEEDBACK_PATH", _str("SIMPLE"), "feedback from the VCO"),
@@ -136,7 +142,7 @@ def _ice40(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
     )),))  # fmt: skip
 
 
-def _ecp5(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
+def _ecp5(f_board: Fraction, s: Setting, sig: Signals) -> Primitives:
     c = s.counters()
     return Primitives((Instance("EHXPLLL", "pll", (
         Param("CLKI_DIV", _int(c["CLKI_DIV"]), "input divider"),
@@ -158,18 +164,18 @@ def _ecp5(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
     )),))  # fmt: skip
 
 
-def _xc7(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
+def _xc7(f_board: Fraction, s: Setting, sig: Signals) -> Primitives:
     """MMCME2_BASE or PLLE2_BASE, its output through a BUFG onto a global net."""
     fam, c = s.family, s.counters()
     mmcm = fam.key == "xc7-mmcm"
     mult = "CLKFBOUT_MULT_F" if mmcm else "CLKFBOUT_MULT"
     div = "CLKOUT0_DIVIDE_F" if mmcm else "CLKOUT0_DIVIDE"
     number = _real if mmcm else _int
-    period_ns = Fraction(10**9) / plan.f_board
+    period_ns = Fraction(10**9) / f_board
     pll = Instance(fam.primitive, "pll", (
         Param("BANDWIDTH", _str("OPTIMIZED")),
         Param("CLKIN1_PERIOD", _real(Fraction(fixed(period_ns, 3))),
-              f"ns: board clock {hz(plan.f_board)}"),
+              f"ns: board clock {hz(f_board)}"),
         Param("DIVCLK_DIVIDE", _int(c["DIVCLK_DIVIDE"]), "input divider"),
         Param(mult, number(c[mult]), "feedback multiplier"),
         Param(div, number(c[div]), "output divider"),
@@ -189,9 +195,9 @@ def _xc7(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
     return Primitives((pll, bufg), wires=(("clk_feedback", None), ("clk_unbuffered", None)))
 
 
-def _gowin(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
+def _gowin(f_board: Fraction, s: Setting, sig: Signals) -> Primitives:
     c = s.counters()
-    mhz = fixed(plan.f_board / 10**6, 3).rstrip("0").rstrip(".")
+    mhz = fixed(f_board / 10**6, 3).rstrip("0").rstrip(".")
     return Primitives((Instance("rPLL", "pll", (
         Param("FCLKIN", _str(mhz), "board clock in MHz"),
         Param("DYN_IDIV_SEL", _str("false")),
@@ -211,7 +217,7 @@ def _gowin(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
     )),))  # fmt: skip
 
 
-def _cyclone(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
+def _cyclone(f_board: Fraction, s: Setting, sig: Signals) -> Primitives:
     """ALTPLL takes the ratio; its clock ports are buses, joined to the wrapper by wires."""
     p = s.parameters()
     return Primitives((Instance("altpll", "pll", (
@@ -219,8 +225,8 @@ def _cyclone(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
         Param("lpm_type", _str("altpll")),
         Param("operation_mode", _str("NORMAL")),
         Param("compensate_clock", _str("CLK0")),
-        Param("inclk0_input_frequency", _int(round(Fraction(10**12) / plan.f_board)),
-              f"ps: board clock {hz(plan.f_board)}"),
+        Param("inclk0_input_frequency", _int(round(Fraction(10**12) / f_board)),
+              f"ps: board clock {hz(f_board)}"),
         Param("clk0_multiply_by", _int(p["clk0_multiply_by"]),
               f"planned counters M={s.multiplier} N={s.input_ratio} C0={s.output_ratio}"),
         Param("clk0_divide_by", _int(p["clk0_divide_by"])),
@@ -235,7 +241,7 @@ def _cyclone(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
     )),), wires=(("clk_in_bus", 2), ("clk_out_bus", 5)), bus_io=True)  # fmt: skip
 
 
-BUILDERS: dict[str, Callable[[ClockPlan, Setting, Signals], Primitives]] = {
+BUILDERS: dict[str, Callable[[Fraction, Setting, Signals], Primitives]] = {
     "ice40": _ice40,
     "ecp5": _ecp5,
     "xc7-mmcm": _xc7,
@@ -243,9 +249,9 @@ BUILDERS: dict[str, Callable[[ClockPlan, Setting, Signals], Primitives]] = {
     "gowin": _gowin,
     "cyclone": _cyclone,
 }
-"""The primitive builder of each family, by family key."""
+"""The primitive builder of each family, by family key: (board clock, setting, signals)."""
 
 
 def primitives(plan: ClockPlan, s: Setting, sig: Signals) -> Primitives:
     """The family's primitive instances for setting ``s``, wired to the wrapper signals ``sig``."""
-    return BUILDERS[s.family.key](plan, s, sig)
+    return BUILDERS[s.family.key](plan.f_board, s, sig)

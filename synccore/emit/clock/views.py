@@ -159,3 +159,34 @@ def vhdl_view(ctx: ClockContext) -> dict[str, object]:
         "count_last": ctx.divide - 1,
         "count_msb": ctx.count_width - 1,
     }
+
+
+def verilog_instance(inst: Instance) -> dict[str, object]:
+    """One instance's aligned Verilog parameter and pin lines (for other wrappers' views)."""
+    return _instance_view(inst, _verilog_literal, ".{}({})", "//")
+
+
+def vhdl_instance(inst: Instance) -> dict[str, object]:
+    """One instance's aligned VHDL generic and port map lines."""
+    return _instance_view(inst, _vhdl_literal, "{} => {}", "--")
+
+
+def vhdl_components(instances: tuple[Instance, ...]) -> list[dict[str, object]]:
+    """The component declaration of every primitive used, once each, in order of use."""
+    comps = []
+    seen: set[str] = set()
+    for inst in instances:
+        if inst.primitive not in seen:
+            seen.add(inst.primitive)
+            comps.append(_vhdl_component(inst))
+    return comps
+
+
+def aligned(rows: list[tuple[str, str]], mark: str) -> list[str]:
+    """``(text, comment)`` rows with the comments (after ``mark``) in one column."""
+    return _aligned(rows, mark)
+
+
+def vhdl_type(width: int | None) -> str:
+    """``std_logic`` or ``std_logic_vector(w-1 downto 0)``."""
+    return _vhdl_port_type(width)
