@@ -20,7 +20,8 @@ from pathlib import Path
 
 from synccore._version import __version__
 from synccore.clocking import FAMILIES, FAMILY_KEYS, Family, advice
-from synccore.clocking.link import LinkPlan, plan_link
+from synccore.clocking.link import SERIAL_FACTOR, LinkPlan, plan_link
+from synccore.clocking.link_report import io_text, link_miss_text
 from synccore.clocking.plan import ClockPlan, make_plan
 from synccore.clocking.report import miss_text
 from synccore.emit import render_verilog, render_vhdl
@@ -28,6 +29,7 @@ from synccore.emit.files import (
     board_artifacts,
     clock_artifacts,
     core_artifacts,
+    dvi_artifacts,
     pattern_artifacts,
     testbench_artifacts,
     write_artifacts,
@@ -53,6 +55,7 @@ from synccore.verification.tools import INSTALL_HINT, unusable
 __all__ = [
     "Axis",
     "ClockPlan",
+    "LinkPlan",
     "CoreOptions",
     "Location",
     "Mode",
@@ -68,6 +71,7 @@ __all__ = [
     "adjusted_text",
     "find_mode",
     "json_schema",
+    "plan_dvi_link",
     "load",
     "loads",
     "plan_clock",
@@ -86,7 +90,9 @@ def write(
     testbench: bool = False,
     pattern: str | None = None,
     clock: ClockPlan | None = None,
+    link: LinkPlan | None = None,
     accept_clock_error: bool = False,
+    accept_io_limit: bool = False,
     force: bool = False,
 ) -> list[Path]:
     """Write the files of ``spec`` into ``out_dir``, all of them or none; return their paths.
@@ -106,6 +112,14 @@ def write(
     ``.lpf``, ``.cst``, ``.xdc`` or ``.qsf``; none for the clock-enable route) and
     its timing constraints (``.sdc``; in the ``.xdc`` for the 7 series).
 
+    ``link`` (a plan from :func:`plan_dvi_link`, with ``pattern``, instead of ``clock``)
+    writes the DVI design instead of the board top: the TMDS encoder
+    ``<name>_tmds_encoder``, the link core ``<name>_tmds``, the family's serialiser
+    ``<name>_serialiser``, the link clock ``<name>_link_clock`` (pixel and serial clock
+    from one PLL) and the DVI top ``<name>_dvi`` with its constraints and pin file.  A
+    link plan outside the tolerance is refused unless ``accept_clock_error=True``, one
+    whose bit rate exceeds the family's I/O rating unless ``accept_io_limit=True``.
+
     The folder is created if missing.  An existing file is replaced only if
     synccore generated it, or with ``force=True``.
 
@@ -118,6 +132,8 @@ def write(
     written when anything is raised.
     """
     _check_request(spec, pattern, clock, accept_clock_error)
+    if link is not None:
+        _check_link(spec, pattern, clock, link, accept_clock_error, accept_io_limit)
     artifacts = core_artifacts(spec)
     if testbench:
         artifacts += testbench_artifacts(spec)
@@ -127,7 +143,31 @@ def write(
         artifacts += clock_artifacts(clock)
     if clock is not None and pattern is not None:
         artifacts += board_artifacts(clock, pattern)
+    if link is not None and pattern is not None:
+        artifacts += dvi_artifacts(link, pattern)
     return write_artifacts(artifacts, out_dir, force=force)
+
+
+def _check_link(spec: Spec, pattern: str | None, clock: ClockPlan | None, link: LinkPlan,
+                accept_clock_error: bool, accept_io_limit: bool) -> None:  # fmt: skip
+    """Raise what :func:`write` documents when ``link`` cannot be written for ``spec``."""
+    if pattern is None or clock is not None:
+        raise ValueError("a DVI link is written with a pattern and without a clock plan: "
+                         "write(spec, out, pattern='bars', link=plan_dvi_link(...))")  # fmt: skip
+    if link.spec != spec:
+        raise ValueError(f"the link plan was made for the spec {link.spec.name!r} "
+                         f"({link.spec.source}), not for this one ({spec.source})")  # fmt: skip
+    if link.problems:
+        raise SpecError(list(link.problems))
+    if link.setting is None:
+        raise ToolError(f"no PLL setting of {link.family.key} reaches the serial clock "
+                        f"{hz(link.wanted_pixel_hz * SERIAL_FACTOR)} from {hz(link.f_board)}")  # fmt: skip
+    if not link.within_tolerance and not accept_clock_error:
+        raise ToolError(f"the link's pixel clock misses: {link_miss_text(link)}; pass "
+                        "accept_clock_error=True to write it anyway")  # fmt: skip
+    if not link.fits_io and not accept_io_limit:
+        raise ToolError(f"{io_text(link)}; pass accept_io_limit=True to write it anyway"
+                        + (f" (modes that fit: {', '.join(link.suggestions)})" if link.suggestions else ""))
 
 
 def _check_request(spec: Spec, pattern: str | None, clock: ClockPlan | None,

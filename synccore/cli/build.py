@@ -6,9 +6,18 @@ import click
 
 from synccore.api import write
 from synccore.cli._common import console, fail, fail_spec, load_spec
-from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, print_plan, refusal
+from synccore.cli.clock import (
+    ACCEPT_OPTION,
+    board_options,
+    build_plan,
+    link_plan_for,
+    print_link,
+    print_plan,
+    refusal,
+)
 from synccore.cli.show import print_summary
 from synccore.cli.verify import run_verify
+from synccore.clocking.link_report import io_text, link_miss_text
 from synccore.errors import SpecError, ToolError
 from synccore.model.pattern import PATTERNS
 from synccore.spec import Spec
@@ -70,14 +79,30 @@ def cautions(spec: Spec, *, tmds: bool = False) -> list[str]:
 @click.option("--pattern", type=click.Choice(PATTERNS), default=None,
               help="Also write a test-pattern generator and a first-light top level "
                    "(OUT/<name>_pattern.*, OUT/<name>_top.*).")
+@click.option("--link", type=click.Choice(("dvi",)), default=None,
+              help="Write the first-light design for a DVI/HDMI display: TMDS encoders, the "
+                   "family's serialiser, the link clocks and the top OUT/<name>_dvi.* with its "
+                   "pin file (needs --family and --board-clock, or the spec's board section).")
+@click.option("--accept-io-limit", "accept_io_limit", is_flag=True,
+              help="With --link: write the design even when the link's bit rate exceeds the "
+                   "family's I/O rating.")
 def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: str | None,
           family: str | None, no_pll: bool, accept_clock_error: bool, with_testbench: bool,
-          then_verify: bool, pattern: str | None) -> None:  # fmt: skip
+          then_verify: bool, pattern: str | None, link: str | None,
+          accept_io_limit: bool) -> None:  # fmt: skip
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = load_spec(spec)
     out = console(wide_pipe=True)
+    if link is not None:
+        _build_link(s, spec, out_dir, force, board_clock, family, no_pll, with_clock, accept_clock_error,
+                    accept_io_limit, with_testbench, pattern or "bars")  # fmt: skip
+        if then_verify:
+            run_verify(s, engines=None, frames=2, waves=False, work_dir=None, out=out)
+        return
+    if accept_io_limit:
+        fail("--accept-io-limit needs --link")
     if not with_clock and (board_clock or family or no_pll or accept_clock_error):
-        fail(f"--board-clock, --family, --no-pll and {ACCEPT_OPTION} need --clock")
+        fail(f"--board-clock, --family, --no-pll and {ACCEPT_OPTION} need --clock or --link")
     plan = build_plan(s, board_clock, family, no_pll) if with_clock else None
     if plan is not None and not plan.within_tolerance and not accept_clock_error:
         fail(refusal(plan, spec, board_clock))
@@ -104,3 +129,38 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
         out.print(caution, style="dim")
     if then_verify:
         run_verify(s, engines=None, frames=2, waves=False, work_dir=None, out=out)
+
+
+def _build_link(s: Spec, spec: str, out_dir: str, force: bool, board_clock: str | None,
+                family: str | None, no_pll: bool, with_clock: bool, accept_clock_error: bool,
+                accept_io_limit: bool, with_testbench: bool, pattern: str) -> None:  # fmt: skip
+    """``build --link dvi``: plan the link's clocks, refuse what cannot work, write the design."""
+    if with_clock or no_pll:
+        fail("--link dvi plans its own clocks through the family's PLL: drop --clock and --no-pll")
+    plan = link_plan_for(s, board_clock, family)
+    if plan.problems:
+        fail_spec(SpecError(list(plan.problems)))
+    out = console(wide_pipe=True)
+    if plan.setting is not None and not plan.within_tolerance and not accept_clock_error:
+        fail(f"the link's {link_miss_text(plan)}; choose another board clock or a timing the PLL "
+             f"reaches, or pass {ACCEPT_OPTION} (most monitors lock a little off; some refuse)")
+    if not plan.fits_io and not accept_io_limit:
+        fits = f"; modes that fit: {', '.join(plan.suggestions)}" if plan.suggestions else ""
+        fail(f"{io_text(plan)}{fits}; or pass --accept-io-limit to write it anyway")
+    try:
+        written = write(s, out_dir, testbench=with_testbench, pattern=pattern, link=plan,
+                        accept_clock_error=accept_clock_error, accept_io_limit=accept_io_limit,
+                        force=force)  # fmt: skip
+    except SpecError as err:
+        fail_spec(err)
+    except ToolError as err:
+        fail(str(err))
+    print_summary(s, out)
+    print_link(plan, out)
+    for path in written:
+        out.print(f"wrote {path}")
+    out.print(f"first-light DVI design: synthesise {s.name}_dvi (board clock to TMDS pins, pattern "
+              f"{pattern}) after filling in the pins of its pin file; see it first with "
+              f"`synccore view {spec} --link dvi --pattern {pattern}`")  # fmt: skip
+    for caution in cautions(s, tmds=True):
+        out.print(caution, style="dim")

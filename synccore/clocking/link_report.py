@@ -10,7 +10,7 @@ from synccore.clocking.report import percent_text, ppm_text, route_text
 from synccore.model import Timing
 from synccore.units import fixed, hz
 
-__all__ = ["io_text", "link_dict", "link_facts", "raster_name", "rate_text"]
+__all__ = ["io_text", "link_dict", "link_facts", "link_miss_text", "raster_name", "rate_text"]
 
 
 def rate_text(bits_per_second: Fraction) -> str:
@@ -118,3 +118,12 @@ def link_dict(plan: LinkPlan) -> dict[str, Any]:
         "suggestions": list(plan.suggestions),
         "problems": [str(p) for p in plan.problems],
     }  # fmt: skip
+
+
+def link_miss_text(plan: LinkPlan) -> str:
+    """Why the link's pixel clock misses, in one phrase: reached, wanted, error, tolerance."""
+    pct = fixed(plan.tolerance * 100, 3).rstrip("0").rstrip(".")
+    if plan.pixel_hz is None or plan.ppm is None:
+        return "no setting reaches the serial clock"
+    return (f"pixel clock {hz(plan.pixel_hz)} for {hz(plan.wanted_pixel_hz)} wanted "
+            f"({ppm_text(plan.ppm)}), outside +/-{pct} % ({plan.tolerance_source})")  # fmt: skip

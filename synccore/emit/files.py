@@ -15,6 +15,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
 
+from synccore.clocking.link import LinkPlan
 from synccore.clocking.plan import ClockPlan
 from synccore.emit import render_verilog, render_vhdl
 from synccore.emit.clock.constraints import constraint_suffix, render_constraints
@@ -117,6 +118,34 @@ def link_artifacts(spec: Spec, pattern: str) -> list[Artifact]:
         Artifact(core + ".v", render_link_core(spec, pattern, "verilog")),
         Artifact(core + ".vhd", render_link_core(spec, pattern, "vhdl")),
     ]
+
+
+def dvi_artifacts(plan: LinkPlan, pattern: str) -> list[Artifact]:
+    """The DVI design for ``plan``'s family: encoder, link core, serialiser, link clock and its
+    constraints, the DVI top ``<name>_dvi`` and its pin file (the core and the first-light
+    files come from :func:`core_artifacts` and :func:`pattern_artifacts`)."""
+    from synccore.emit.link.clock import link_constraint_suffix, render_link_clock, render_link_constraints
+    from synccore.emit.link.dvi_top import dvi_module, render_dvi_top
+    from synccore.emit.link.serialiser import dvi_pin_suffix, render_dvi_pins, render_serialiser
+
+    spec, key = plan.spec, plan.family.key
+    name, top = spec.name, dvi_module(plan)
+    out = link_artifacts(spec, pattern)
+    out += [
+        Artifact(f"{name}_serialiser.v", render_serialiser(spec, key, "verilog")),
+        Artifact(f"{name}_serialiser.vhd", render_serialiser(spec, key, "vhdl")),
+        Artifact(f"{name}_link_clock.v", render_link_clock(plan, "verilog")),
+        Artifact(f"{name}_link_clock.vhd", render_link_clock(plan, "vhdl")),
+        Artifact(top + ".v", render_dvi_top(plan, pattern, "verilog")),
+        Artifact(top + ".vhd", render_dvi_top(plan, pattern, "vhdl")),
+    ]
+    board_port = spec.port_prefix + "board_clk"
+    constraints = Artifact(top + link_constraint_suffix(plan),
+                           render_link_constraints(plan, board_port=board_port))
+    pins = Artifact(top + dvi_pin_suffix(key), render_dvi_pins(spec, key))
+    if pins.name == constraints.name:  # the 7 series: one .xdc carries pins and timing
+        return out + [Artifact(pins.name, pins.text + "\n" + constraints.text)]
+    return out + [constraints, pins]
 
 
 def _generated_by_us(path: Path) -> bool:

@@ -178,12 +178,15 @@ def _period(f: Fraction) -> str:
     return fixed(Fraction(10**9) / f, 3)
 
 
-def render_link_constraints(plan: LinkPlan) -> str:
-    """The SDC (XDC for Xilinx) text declaring the board clock and the link's two clocks."""
+def render_link_constraints(plan: LinkPlan, *, board_port: str = "clk_in") -> str:
+    """The SDC (XDC for Xilinx) text declaring the board clock and the link's two clocks.
+
+    ``board_port`` is the board clock's port: the wrapper's ``clk_in``, or the DVI top's pin.
+    """
     if plan.serial_hz is None or plan.core_hz is None:
         raise ValueError("the link plan has no setting to emit")
     xdc = link_constraint_suffix(plan) == ".xdc"
-    clocks = [ClockLine("board_clk", _period(plan.f_board), "get_ports", "clk_in",
+    clocks = [ClockLine("board_clk", _period(plan.f_board), "get_ports", board_port,
                         f"board clock, {hz(plan.f_board)}")]  # fmt: skip
     derived = [
         ClockLine("serial_clk", _period(plan.serial_hz), "get_nets", SERIAL_NET,

@@ -22,9 +22,8 @@ from synccore.clocking.link import LinkPlan
 from synccore.emit import _verilog as vl
 from synccore.emit import _vhdl as vh
 from synccore.emit._jinja import environment
-from synccore.emit.core.context import header_lines as core_header
+from synccore.emit.link.clock import header_lines
 from synccore.emit.link.link_core import LinkCoreContext, link_core_context
-from synccore.model import Timing
 from synccore.units import hz
 
 
@@ -70,14 +69,16 @@ def _ports(plan: LinkPlan) -> tuple[DviPort, ...]:
 
 def _header(plan: LinkPlan, link: LinkCoreContext, module: str) -> tuple[str, ...]:
     spec = plan.spec
-    fam = plan.family
+    mark, _, blank, *facts = header_lines(plan, "DVI top level")
     lines = [
-        core_header(Timing(spec))[0],
-        f"DVI top level '{module}': board clock -> {fam.primitive} in '{spec.name}_link_clock' ->",
-        f"reset synchroniser -> link core '{link.module}' -> serialiser '{spec.name}_serialiser' -> TMDS pins.",
+        mark,
+        f"DVI top level '{module}': board clock -> {plan.family.primitive} in "
+        f"'{spec.name}_link_clock' ->",
+        f"reset synchroniser -> link core '{link.module}' -> serialiser '{spec.name}_serialiser' "
+        "-> TMDS pins.",
         "Synthesise this module as it is; fill in the pin file beside it.",
         "",
-        *plan.lines(),
+        *facts,
         "",
         f"Alignment: the core's lead aligns colour, syncs and de in '{link.top.top}'; they pass the",
         f"encoders together. latency: {link.latency} core cycles from the core's syncs to the words,",
@@ -124,8 +125,9 @@ def render_dvi_top(plan: LinkPlan, pattern: str, language: str) -> str:
     n = len(c.ports)
     if language == "verilog":
         rows = [(f"{'input ' if q.direction == 'in' else 'output'} wire "
-                 f"{'      ' if q.msb is None else f'[{q.msb}:0]'.ljust(6)} {q.name}{',' if i < n - 1 else ''}",
-                 q.comment) for i, q in enumerate(c.ports)]  # fmt: skip
+                 f"{'      ' if q.msb is None else f'[{q.msb}:0]'.ljust(6)} "
+                 f"{q.name}{',' if i < n - 1 else ''}", q.comment)
+                for i, q in enumerate(c.ports)]  # fmt: skip
         view = {"header": vl.comment_lines(c.header), "ports": _aligned(rows, "//")}
         return environment().get_template("link/dvi_top.v.j2").render(c=c, v=view)
     width = max(len(q.name) for q in c.ports)
