@@ -48,16 +48,24 @@ def _pins(ctx: SerialiserContext, lanes: list[dict[str, object]]) -> list[dict[s
 
 def _hard_lanes(ctx: SerialiserContext, verilog: bool) -> list[dict[str, object]]:
     """One entry per lane for the hard serialisers: the ten bits, bit 0 first."""
-    out = []
+    out: list[dict[str, object]] = []
     for label, word, index in LANES:
         if word:
             bits = [f"{word}[{i}]" if verilog else f"{word}({i})" for i in range(10)]
         else:
             symbol = ctx.clock_word[-10:][::-1]  # bit 0 first
             bits = [f"1'b{b}" if verilog else f"'{b}'" for b in symbol]
-        out.append({"label": label, "bits": bits, "serial": f"serial_{label}",
-                    "shift1": f"shift1_{label}", "shift2": f"shift2_{label}",
-                    "p": _pin(ctx, index, "p", verilog), "n": _pin(ctx, index, "n", verilog)})
+        out.append(
+            {
+                "label": label,
+                "bits": bits,
+                "serial": f"serial_{label}",
+                "shift1": f"shift1_{label}",
+                "shift2": f"shift2_{label}",
+                "p": _pin(ctx, index, "p", verilog),
+                "n": _pin(ctx, index, "n", verilog),
+            }
+        )
     return out
 
 
