@@ -1,0 +1,1 @@
+"""Tests of the DVI/TMDS link emitters."""

@@ -1,1 +1,1 @@
-"""The DVI/TMDS link: encoders, serialisers, the link clock and the board-level top."""
+"""The DVI/TMDS link: the TMDS encoder, the link core, the serialisers, the link clocks and the DVI top."""
