@@ -30,8 +30,10 @@ CAUTIONS = {
     "panel": "Hardware (LCD panel): drive its inputs at the logic level its datasheet gives, and "
              "follow the datasheet for the supply sequence and the backlight supply (often a boost "
              "converter at tens of volts). See the README, 'Hardware cautions'.",
-    "tmds": "Hardware (TMDS link): the pairs need pins that can drive TMDS (or a level-shifting "
-            "circuit) and their pin constraints. See the README, 'Hardware cautions'.",
+    "tmds": "Hardware (TMDS link): TMDS is a DC-coupled current-mode link terminated at the sink "
+            "(50 ohm to 3.3 V per line); drive the pairs only from pins and the I/O standard the pin "
+            "file names (or a level-shifting circuit), keep the connector's 5 V and hot-plug lines off "
+            "the FPGA's pins, and follow the board's schematic. See docs/dvi.md.",
 }  # fmt: skip
 
 
@@ -55,8 +57,9 @@ def display_kind(spec: Spec) -> str:
 
 
 def cautions(spec: Spec, *, tmds: bool = False) -> list[str]:
-    """The hardware cautions that fit what ``spec`` drives; ``tmds`` when a TMDS link is written."""
-    return [CAUTIONS[display_kind(spec)]] + ([CAUTIONS["tmds"]] if tmds else [])
+    """The hardware cautions that fit what ``spec`` drives; only the link's when ``tmds``
+    (a TMDS link is written: the VGA and panel levels do not apply)."""
+    return [CAUTIONS["tmds"]] if tmds else [CAUTIONS[display_kind(spec)]]
 
 
 @click.command()

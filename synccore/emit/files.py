@@ -125,8 +125,9 @@ def dvi_artifacts(plan: LinkPlan, pattern: str) -> list[Artifact]:
     constraints, the DVI top ``<name>_dvi`` and its pin file (the core and the first-light
     files come from :func:`core_artifacts` and :func:`pattern_artifacts`)."""
     from synccore.emit.link.clock import link_constraint_suffix, render_link_clock, render_link_constraints
+    from synccore.emit.link.dvi_pins import dvi_pin_suffix, render_dvi_pins
     from synccore.emit.link.dvi_top import dvi_module, render_dvi_top
-    from synccore.emit.link.serialiser import dvi_pin_suffix, render_dvi_pins, render_serialiser
+    from synccore.emit.link.serialiser import render_serialiser
 
     spec, key = plan.spec, plan.family.key
     name, top = spec.name, dvi_module(plan)
@@ -142,7 +143,7 @@ def dvi_artifacts(plan: LinkPlan, pattern: str) -> list[Artifact]:
     board_port = spec.port_prefix + "board_clk"
     constraints = Artifact(top + link_constraint_suffix(plan),
                            render_link_constraints(plan, board_port=board_port))
-    pins = Artifact(top + dvi_pin_suffix(key), render_dvi_pins(spec, key))
+    pins = Artifact(top + dvi_pin_suffix(key), render_dvi_pins(spec, key, f_board=plan.f_board))
     if pins.name == constraints.name:  # the 7 series: one .xdc carries pins and timing
         return out + [Artifact(pins.name, pins.text + "\n" + constraints.text)]
     return out + [constraints, pins]

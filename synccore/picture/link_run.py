@@ -24,7 +24,7 @@ from synccore.emit.bench.link_view import LINK_BENCH, render_link_bench
 from synccore.emit.files import core_artifacts, link_artifacts, pattern_artifacts
 from synccore.model.tmds import eight_bit, encode_stream
 from synccore.picture.link import Lanes
-from synccore.picture.run import ViewError, _run, cycles_needed, model_pins
+from synccore.picture.run import ViewError, cycles_needed, model_pins, run_tool
 from synccore.spec import Spec
 from synccore.verification.simulate import VERILATOR_ARGS, cache_dir
 from synccore.verification.tools import INSTALL_HINT, build_env, find
@@ -94,17 +94,17 @@ def simulate_link(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
     out.unlink(missing_ok=True)
     names = list(files)
     if engine == "icarus":
-        _run(["iverilog", "-g2005", "-s", LINK_BENCH, "-o", "link.vvp", *names], work_dir)
-        _run(["vvp", "-n", "link.vvp", f"+synccore_symbols={out}", f"+synccore_stop={n}"], work_dir)
+        run_tool(["iverilog", "-g2005", "-s", LINK_BENCH, "-o", "link.vvp", *names], work_dir)
+        run_tool(["vvp", "-n", "link.vvp", f"+synccore_symbols={out}", f"+synccore_stop={n}"], work_dir)
     elif engine == "ghdl":
         std = "--std=08"
-        _run(["ghdl", "-a", std, *names], work_dir)
-        _run(["ghdl", "-e", std, LINK_BENCH], work_dir)
-        _run(["ghdl", "-r", std, LINK_BENCH, f"-gsymbols_path={out}", f"-gstop_at={n}"], work_dir)
+        run_tool(["ghdl", "-a", std, *names], work_dir)
+        run_tool(["ghdl", "-e", std, LINK_BENCH], work_dir)
+        run_tool(["ghdl", "-r", std, LINK_BENCH, f"-gsymbols_path={out}", f"-gstop_at={n}"], work_dir)
     else:
-        _run(["verilator", "--binary", *VERILATOR_ARGS, "-j", "2", "--top-module", LINK_BENCH,
+        run_tool(["verilator", "--binary", *VERILATOR_ARGS, "-j", "2", "--top-module", LINK_BENCH,
               "-Mdir", "obj", *names], work_dir, build_env(tool, cache_dir()))  # fmt: skip
-        _run([str(work_dir / "obj" / f"V{LINK_BENCH}"), f"+synccore_symbols={out}",
+        run_tool([str(work_dir / "obj" / f"V{LINK_BENCH}"), f"+synccore_symbols={out}",
               f"+synccore_stop={n}"], work_dir, tool.env)  # fmt: skip
     if not out.is_file():
         raise ViewError(f"{engine}: the link bench wrote no {out.name}")

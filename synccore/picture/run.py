@@ -93,7 +93,7 @@ def sources(spec: Spec, pattern: str, language: str) -> dict[str, str]:
     return out
 
 
-def _run(cmd: list[str], cwd: Path, env: dict[str, str] | None = None) -> None:
+def run_tool(cmd: list[str], cwd: Path, env: dict[str, str] | None = None) -> None:
     import os
 
     full = dict(os.environ)
@@ -138,13 +138,13 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
     screen.unlink(missing_ok=True)
     names = list(files)
     if engine == "icarus":
-        _run(["iverilog", "-g2005", "-s", BENCH, "-o", "view.vvp", *names], work_dir)
-        _run(["vvp", "-n", "view.vvp", f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir)
+        run_tool(["iverilog", "-g2005", "-s", BENCH, "-o", "view.vvp", *names], work_dir)
+        run_tool(["vvp", "-n", "view.vvp", f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir)
     elif engine == "ghdl":
         std = "--std=08"
-        _run(["ghdl", "-a", std, *names], work_dir)
-        _run(["ghdl", "-e", std, BENCH], work_dir)
-        _run(["ghdl", "-r", std, BENCH, f"-gevents_path={screen}", f"-gstop_at={n}"], work_dir)
+        run_tool(["ghdl", "-a", std, *names], work_dir)
+        run_tool(["ghdl", "-e", std, BENCH], work_dir)
+        run_tool(["ghdl", "-r", std, BENCH, f"-gevents_path={screen}", f"-gstop_at={n}"], work_dir)
     else:
         key = hashlib.sha256(json.dumps(sorted(files.items())).encode()).hexdigest()[:24]
         build = cache_dir() / f"view-verilator-{key}"
@@ -155,9 +155,9 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
                 build.mkdir(parents=True)
                 for name, text in files.items():
                     (build / name).write_text(text, encoding="utf-8")
-                _run(["verilator", "--binary", *VERILATOR_ARGS, "-j", "2", "--top-module", BENCH,
+                run_tool(["verilator", "--binary", *VERILATOR_ARGS, "-j", "2", "--top-module", BENCH,
                       "-Mdir", "obj", *names], build, build_env(tool, cache_dir()))  # fmt: skip
-        _run([str(binary), f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir, tool.env)
+        run_tool([str(binary), f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir, tool.env)
     if not screen.is_file():
         raise ViewError(f"{engine}: the bench wrote no {screen.name}")
     return read_screen(screen.read_text(), period_s=period_s, bits=bits, pixels_per_clock=ppc)
@@ -202,8 +202,8 @@ def simulate_board(plan: ClockPlan, pattern: str, *, work_dir: Path,
         (work_dir / name).write_text(text, encoding="utf-8")
     screen = (work_dir / "screen.txt").resolve()
     screen.unlink(missing_ok=True)
-    _run(["iverilog", "-g2005", "-s", BOARD_BENCH, "-o", "board.vvp", *files], work_dir)
-    _run(["vvp", "-n", "board.vvp", f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir)
+    run_tool(["iverilog", "-g2005", "-s", BOARD_BENCH, "-o", "board.vvp", *files], work_dir)
+    run_tool(["vvp", "-n", "board.vvp", f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir)
     if not screen.is_file():
         raise ViewError(f"icarus: the board bench wrote no {screen.name}")
     lines = screen.read_text().splitlines()

@@ -38,7 +38,7 @@ def test_cautions_name_what_fits_once() -> None:
     monitor = synccore.load(BY_NAME["framebuffer_320x240"])
     assert cautions(panel) == [CAUTIONS["panel"]]
     assert cautions(monitor) == [CAUTIONS["monitor"]]
-    assert cautions(monitor, tmds=True) == [CAUTIONS["monitor"], CAUTIONS["tmds"]]
+    assert cautions(monitor, tmds=True) == [CAUTIONS["tmds"]]
     assert "75 ohm" in CAUTIONS["monitor"] and "75 ohm" not in CAUTIONS["panel"]
     assert "backlight" in CAUTIONS["panel"] and "backlight" not in CAUTIONS["monitor"]
 
