@@ -172,7 +172,8 @@ def _verilog_view(c: EncoderContext) -> dict[str, object]:
     width = max(len(vl.vector(p.width)) for p in c.ports)
     ports = []
     for i, p in enumerate(c.ports):
-        kind = "input  wire" if p.direction == "in" else ("output reg " if p.name == "q_out" else "output wire")
+        registered = p.name == "q_out"
+        kind = "input  wire" if p.direction == "in" else ("output reg " if registered else "output wire")
         sep = "," if i < len(c.ports) - 1 else ""
         ports.append(f"{kind} {vl.vector(p.width).ljust(width)} {p.name}{sep}".ljust(40) + f"// {p.comment}")
     return {
