@@ -205,6 +205,9 @@ def _vhdl_view(c: EncoderContext) -> dict[str, object]:
         "count_max": c.data_bits,
         "disparity_low": -(1 << (c.disparity_bits - 1)),
         "disparity_high": (1 << (c.disparity_bits - 1)) - 1,
+        "sum_bits": c.disparity_bits + 1,
+        "sum_low": -(1 << c.disparity_bits),
+        "sum_high": (1 << c.disparity_bits) - 1,
     }
 
 
