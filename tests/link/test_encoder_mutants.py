@@ -15,8 +15,8 @@ import pytest
 from synccore.emit.link import render_encoder
 from synccore.verification.tools import Tool
 from tests.link.encoder_bench import make_stimulus, simulate
-from tests.link.specs import variant
 from tests.link.encoder_check import findings
+from tests.link.specs import variant
 
 MUTANTS = {
     # name: (original text, mutated text, the classes the checker may report, the first first)

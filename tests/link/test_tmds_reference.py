@@ -32,6 +32,7 @@ def test_tokens_as_the_standard_prints_them() -> None:
     """DVI 1.0 section 3.2.2 prints q_out[0:9] bit 0 first: 0010101011 for C1C0 = 00 (from memory)."""
     assert format(ref.token(0, 0), "010b")[::-1] == "0010101011"
     assert ref.token(0, 0) == 0b1101010100
+
     # The tokens are told from data by their transitions: 7 or more within a token, at most
     # 5 within any data word (DVI 1.0 section 3.2, from memory).
     def transitions(word: int) -> int:
