@@ -24,6 +24,7 @@ from synccore.emit import _vhdl as vh
 from synccore.emit._jinja import environment
 from synccore.emit.link.clock import header_lines
 from synccore.emit.link.link_core import LinkCoreContext, link_core_context
+from synccore.emit.link.serialiser import SHIFT_FAMILIES
 from synccore.units import hz
 
 
@@ -49,6 +50,9 @@ class DviContext:
     single_clock: bool  # iCE40: the core runs on the serial clock with a ce from the wrapper
     core_has_ce: bool
     core_reset_inverted: bool
+    # the hard serialisers (OSERDESE2, OSER10) take the synchronised reset on their
+    # asynchronous reset input, while the core takes it as a synchronous one
+    reset_also_async: bool
 
 
 def dvi_module(plan: LinkPlan) -> str:
@@ -111,6 +115,7 @@ def build_dvi_context(plan: LinkPlan, pattern: str) -> DviContext:
         single_clock=plan.family.key == "ice40",
         core_has_ce=link.top.core.has_ce,
         core_reset_inverted=link.top.core.reset_active == 0,
+        reset_also_async=plan.family.key not in SHIFT_FAMILIES,
     )
 
 
