@@ -10,7 +10,7 @@ import click
 from rich.table import Table
 
 from synccore.cli._common import FAILED, console, fail, fail_spec, load_spec
-from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, refusal
+from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, link_plan_for, refusal
 from synccore.errors import SpecError
 from synccore.spec import Spec
 from synccore.units import hz
@@ -52,10 +52,14 @@ VCD_HINT = ("give the SPEC too (synccore view SPEC --vcd ...) to check that the 
               help="Keep the simulation folder here (default: a temporary folder).")
 @click.option("--link", type=click.Choice(("dvi",)), default=None,
               help="Send the picture over a TMDS link (DVI signalling) and receive it as a DVI "
-                   "sink does: symbol boundaries from the control tokens, decoding, then the monitor.")
+                   "sink does: symbol boundaries from the control tokens, decoding, then the monitor. "
+                   "Alone it runs the link core's words; with --board, the serial lanes of the whole "
+                   "DVI top.")
 @click.option("--board", "whole_board", is_flag=True,
               help="Simulate the board top from its clock pin (Icarus): the PLL as a model that "
-                   "derives its clock from the primitive's parameters, the reset held until lock.")
+                   "derives its clock from the primitive's parameters, the reset held until lock. "
+                   "With --link dvi: the DVI top, its serialiser's I/O primitives as models, the "
+                   "TMDS pins sampled at the bit rate.")
 @board_options
 @click.option(ACCEPT_OPTION, "accept_clock_error", is_flag=True,
               help="With --board: simulate even when the planned clock is outside the tolerance.")
@@ -78,13 +82,23 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     clock_problems: list[str] = []
     if not whole_board and (board_clock or family or no_pll or accept_clock_error):
         fail(f"--board-clock, --family, --no-pll and {ACCEPT_OPTION} need --board")
-    if link and (vcd or whole_board or engine == "builtin"):
-        fail("--link dvi simulates the link core on icarus, ghdl, verilator or model; "
-             "drop --vcd, --board and --sim builtin")  # fmt: skip
+    if link and (vcd or engine == "builtin"):
+        fail("--link dvi simulates the link core on icarus, ghdl, verilator or model (with --board, "
+             "the whole DVI top on icarus); drop --vcd and --sim builtin")  # fmt: skip
     if whole_board and (vcd or engine != "icarus"):
         fail("--board: the board top runs in Icarus only (the PLL models are Verilog); "
              "drop --vcd and --sim")  # fmt: skip
-    if whole_board:
+    if whole_board and link:
+        if spec is None:
+            raise click.UsageError("--board needs a SPEC")
+        if no_pll:
+            fail("--link dvi plans its own clocks through the family's PLL: drop --no-pll")
+        s = _load(spec)
+        name = s.name
+        title = f"{s.name}_dvi ({pattern}) from its board clock pin, serial lanes on icarus"
+        pins = _link_board(s, spec, pattern, board_clock, family, accept_clock_error, work_dir,
+                           clock_notes, clock_problems)  # fmt: skip
+    elif whole_board:
         if spec is None:
             raise click.UsageError("--board needs a SPEC")
         s = _load(spec)
@@ -190,6 +204,52 @@ def _receive(s: Spec, pattern: str, engine: str, work_dir: str | None, notes: li
         fail(str(err))
     rec = receive(lanes)
     notes += [f"the sink read {lanes.source}", *rec.notes]
+    problems += rec.problems
+    if rec.pins is None:
+        fail((f"PROBLEM {problem}" for problem in problems), code=FAILED)
+    return rec.pins
+
+
+def _link_board(s: Spec, spec: str, pattern: str, board_clock: str | None, family: str | None,
+                accept_clock_error: bool, work_dir: str | None, notes: list[str],
+                problems: list[str]) -> Pins:  # fmt: skip
+    """``--link dvi --board``: the DVI top from its clock pin, its TMDS pins read by the sink."""
+    from synccore.clocking.link_report import io_text, link_miss_text
+    from synccore.picture.link import receive
+    from synccore.picture.link_serial import simulate_dvi
+    from synccore.picture.run import ViewError
+
+    plan = link_plan_for(s, board_clock, family)
+    if plan.problems:
+        fail_spec(SpecError(list(plan.problems)))
+    if plan.setting is None or plan.serial_hz is None or plan.pixel_hz is None:
+        fail(f"the link's {link_miss_text(plan)}; choose another board clock")
+    if not plan.within_tolerance and not accept_clock_error:
+        fail(f"the link's {link_miss_text(plan)}; choose another board clock or a timing the PLL "
+             f"reaches, or pass {ACCEPT_OPTION} to view it anyway")  # fmt: skip
+    try:
+        if work_dir:
+            run = simulate_dvi(plan, pattern, work_dir=Path(work_dir))
+        else:
+            with tempfile.TemporaryDirectory(prefix="synccore-dvi-") as tmp:
+                run = simulate_dvi(plan, pattern, work_dir=Path(tmp))
+    except ViewError as err:
+        fail(str(err))
+    for label, measured, planned in (("serial clock", run.f_serial_hz, plan.serial_hz),
+                                     ("pixel clock", run.f_pixel_hz, plan.pixel_hz)):  # fmt: skip
+        line = (f"{label} measured on the DVI top: {measured / 1e6:.6f} MHz from the "
+                f"{hz(plan.f_board)} pin (planned {hz(planned)})")  # fmt: skip
+        # the models round each edge to 1 fs: a few parts in 10^8 at most
+        if abs(measured - float(planned)) > float(planned) * 1e-6:
+            problems.append(line + ": the PLL's parameters do not give the planned clock")
+        else:
+            notes.append(line)
+    if run.mismatches:
+        problems.append(f"{run.mismatches} samples where a TMDS _n pin was not the inverse of its _p pin")
+    if not plan.fits_io:
+        problems.append(io_text(plan))
+    rec = receive(run.lanes)
+    notes += [f"the sink read {run.lanes.source}", *rec.notes]
     problems += rec.problems
     if rec.pins is None:
         fail((f"PROBLEM {problem}" for problem in problems), code=FAILED)
