@@ -98,8 +98,7 @@ def _bit9_first(text: str) -> str:
     # OSER10 / OSERDESE2: the word's bits wired to the data inputs one by one
     out = re.sub(r"(tmds\d)\[(\d)\]", lambda m: f"{m[1]}[{9 - int(m[2])}]", text)
     # shift-register serialisers: the whole word loaded at once
-    reverse = ", ".join("{w}[%d]" % i for i in range(10))
-    out = re.sub(r"<= (tmds\d);", lambda m: "<= {" + reverse.format(w=m[1]) + "};", out)
+    out = re.sub(r"<= (tmds\d);", lambda m: "<= {" + ", ".join(f"{m[1]}[{i}]" for i in range(10)) + "};", out)
     assert out != text
     return out
 
@@ -119,23 +118,27 @@ def test_a_serialiser_sending_bit_9_first_is_named(
         assert any(p.startswith(f"lane {k}: bit order reversed") for p in rec.problems), rec.problems
 
 
-def test_a_clock_lane_off_the_symbols_is_named(
-        tmp_path: Path, monkeypatch: pytest.MonkeyPatch, need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
+def test_a_clock_lane_off_the_symbols_is_named(tmp_path: Path, monkeypatch: pytest.MonkeyPatch,
+                                               need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
     need_tool("icarus")
     plan = _plan("gowin")
     files = link_serial.dvi_sources(plan, "bars")
     name = "tiny_serialiser.v"
     # the clock lane's OSER10 sends 1110000011: its rising edge two bits early
-    clock = ".D0 (1'b1), .D1 (1'b1), .D2 (1'b1), .D3 (1'b1), .D4 (1'b1),\n        .D5 (1'b0), .D6 (1'b0), .D7 (1'b0), .D8 (1'b0), .D9 (1'b0),"
+    clock = (".D0 (1'b1), .D1 (1'b1), .D2 (1'b1), .D3 (1'b1), .D4 (1'b1),\n"
+             "        .D5 (1'b0), .D6 (1'b0), .D7 (1'b0), .D8 (1'b0), .D9 (1'b0),")
     assert clock in files[name]
-    early = ".D0 (1'b1), .D1 (1'b1), .D2 (1'b1), .D3 (1'b0), .D4 (1'b0),\n        .D5 (1'b0), .D6 (1'b0), .D7 (1'b0), .D8 (1'b1), .D9 (1'b1),"
-    monkeypatch.setattr(link_serial, "dvi_sources", lambda p, pat: {**files, name: files[name].replace(clock, early)})
+    early = (".D0 (1'b1), .D1 (1'b1), .D2 (1'b1), .D3 (1'b0), .D4 (1'b0),\n"
+             "        .D5 (1'b0), .D6 (1'b0), .D7 (1'b0), .D8 (1'b1), .D9 (1'b1),")
+    mutated = {**files, name: files[name].replace(clock, early)}
+    monkeypatch.setattr(link_serial, "dvi_sources", lambda p, pat: mutated)
     rec = receive(link_serial.simulate_dvi(plan, "bars", work_dir=tmp_path).lanes)
     assert rec.problems == ["clock lane: its rising edge is 2 bits before the data symbols start; the sink "
                             "cuts the symbols where the clock rises"]  # fmt: skip
 
 
-def test_view_link_board_cli_reports_the_measured_clocks(tmp_path: Path, need_tool: Callable[[str], Tool]) -> None:
+def test_view_link_board_cli_reports_the_measured_clocks(tmp_path: Path,
+                                                         need_tool: Callable[[str], Tool]) -> None:
     need_tool("icarus")
     spec = tmp_path / "tiny.yaml"
     spec.write_text(TINY_CE, encoding="utf-8")
