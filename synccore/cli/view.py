@@ -88,45 +88,30 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     if whole_board and (vcd or engine != "icarus"):
         fail("--board: the board top runs in Icarus only (the PLL models are Verilog); "
              "drop --vcd and --sim")  # fmt: skip
-    if whole_board and link:
-        if spec is None:
-            raise click.UsageError("--board needs a SPEC")
-        if no_pll:
-            fail("--link dvi plans its own clocks through the family's PLL: drop --no-pll")
-        s = _load(spec)
-        name = s.name
-        title = f"{s.name}_dvi ({pattern}) from its board clock pin, serial lanes on icarus"
-        pins = _link_board(s, spec, pattern, board_clock, family, accept_clock_error, work_dir,
-                           clock_notes, clock_problems)  # fmt: skip
-    elif whole_board:
+    if whole_board:
         if spec is None:
             raise click.UsageError("--board needs a SPEC")
         s = _load(spec)
-        plan = build_plan(s, board_clock, family, no_pll)
-        if not plan.within_tolerance and not accept_clock_error:
-            fail(refusal(plan, spec, board_clock, option="--board", then="view"))
-        name = s.name
-        title = f"{s.name}_board ({pattern}) from its {hz(plan.f_board)} pin on icarus"
-        pins = _simulate_board(plan, pattern, work_dir, clock_notes, clock_problems)
+        title, pins = (_link_board if link else _board)(s, spec, pattern, board_clock, family, no_pll,
+                                                        accept_clock_error, work_dir, clock_notes,
+                                                        clock_problems)  # fmt: skip
     elif link:
         if spec is None:
             raise click.UsageError("--link needs a SPEC")
         s = _load(spec)
-        name = s.name
         title = f"{s.name} ({pattern}) over a DVI link on {engine}"
         pins = _receive(s, pattern, engine, work_dir, clock_notes, clock_problems)
     elif vcd:
         s = load_spec(spec) if spec is not None else None
         pins = _pins_from_vcd(vcd, mapping)
-        name = Path(vcd).stem
         title = f"{vcd}"
     else:
         if spec is None:
             raise click.UsageError("give a SPEC, or --vcd with --map")
         s = _load(spec)
-        name = s.name
         title = f"{s.name} ({pattern}) on {engine}"
         pins = _simulate(s, pattern, engine, work_dir)
+    name = s.name if s is not None and not vcd else Path(vcd or "view").stem
     mon = watch(pins, monitor_range=rng, spec=s)
     mon.notes[:0] = clock_notes
     mon.problems[:0] = clock_problems
@@ -210,15 +195,30 @@ def _receive(s: Spec, pattern: str, engine: str, work_dir: str | None, notes: li
     return rec.pins
 
 
+def _board(s: Spec, spec: str, pattern: str, board_clock: str | None, family: str | None,
+           no_pll: bool, accept_clock_error: bool, work_dir: str | None, notes: list[str],
+           problems: list[str]) -> tuple[str, Pins]:  # fmt: skip
+    """``--board``: the title and the pins of the board top run from its clock pin."""
+    plan = build_plan(s, board_clock, family, no_pll)
+    if not plan.within_tolerance and not accept_clock_error:
+        fail(refusal(plan, spec, board_clock, option="--board", then="view"))
+    title = f"{s.name}_board ({pattern}) from its {hz(plan.f_board)} pin on icarus"
+    return title, _simulate_board(plan, pattern, work_dir, notes, problems)
+
+
 def _link_board(s: Spec, spec: str, pattern: str, board_clock: str | None, family: str | None,
-                accept_clock_error: bool, work_dir: str | None, notes: list[str],
-                problems: list[str]) -> Pins:  # fmt: skip
-    """``--link dvi --board``: the DVI top from its clock pin, its TMDS pins read by the sink."""
+                no_pll: bool, accept_clock_error: bool, work_dir: str | None, notes: list[str],
+                problems: list[str]) -> tuple[str, Pins]:  # fmt: skip
+    """``--link dvi --board``: the DVI top from its clock pin, its TMDS pins read by the sink;
+    the title and the pins the sink decodes (its findings and the clocks measured go to
+    ``notes`` and ``problems``)."""
     from synccore.clocking.link_report import io_text, link_miss_text
     from synccore.picture.link import receive
     from synccore.picture.link_serial import simulate_dvi
     from synccore.picture.run import ViewError
 
+    if no_pll:
+        fail("--link dvi plans its own clocks through the family's PLL: drop --no-pll")
     plan = link_plan_for(s, board_clock, family)
     if plan.problems:
         fail_spec(SpecError(list(plan.problems)))
@@ -253,7 +253,7 @@ def _link_board(s: Spec, spec: str, pattern: str, board_clock: str | None, famil
     problems += rec.problems
     if rec.pins is None:
         fail((f"PROBLEM {problem}" for problem in problems), code=FAILED)
-    return rec.pins
+    return f"{s.name}_dvi ({pattern}) from its board clock pin, serial lanes on icarus", rec.pins
 
 
 def _simulate_board(plan: ClockPlan, pattern: str, work_dir: str | None, notes: list[str],
