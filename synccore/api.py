@@ -20,8 +20,8 @@ from pathlib import Path
 
 from synccore._version import __version__
 from synccore.clocking import FAMILIES, FAMILY_KEYS, Family, advice
-from synccore.clocking.link import SERIAL_FACTOR, LinkPlan, plan_link
-from synccore.clocking.link_report import io_text, link_miss_text
+from synccore.clocking.link import LinkPlan, plan_link
+from synccore.clocking.link_report import link_refusal
 from synccore.clocking.plan import ClockPlan, make_plan
 from synccore.clocking.report import miss_text
 from synccore.emit import render_verilog, render_vhdl
@@ -112,24 +112,19 @@ def write(
     ``.lpf``, ``.cst``, ``.xdc`` or ``.qsf``; none for the clock-enable route) and
     its timing constraints (``.sdc``; in the ``.xdc`` for the 7 series).
 
-    ``link`` (a plan from :func:`plan_dvi_link`, with ``pattern``, instead of ``clock``)
-    writes the DVI design instead of the board top: the TMDS encoder
-    ``<name>_tmds_encoder``, the link core ``<name>_tmds``, the family's serialiser
-    ``<name>_serialiser``, the link clock ``<name>_link_clock`` (pixel and serial clock
-    from one PLL) and the DVI top ``<name>_dvi`` with its constraints and pin file.  A
-    link plan outside the tolerance is refused unless ``accept_clock_error=True``, one
-    whose bit rate exceeds the family's I/O rating unless ``accept_io_limit=True``.
+    ``link`` (a plan from :func:`plan_dvi_link`, with ``pattern``, without ``clock``) adds
+    the DVI design (docs/dvi.md): encoder, link core, serialiser, link clocks, the top
+    ``<name>_dvi``, constraints and pin file; refused outside the tolerance unless
+    ``accept_clock_error=True``, beyond the family's I/O rating unless ``accept_io_limit=True``.
 
     The folder is created if missing.  An existing file is replaced only if
     synccore generated it, or with ``force=True``.
 
-    Raises :class:`SpecError` with every problem when the spec cannot have what
-    was asked (the pattern design needs a minimum active area; the clock-enable
-    route needs ``core.clock_enable``) or when a file may not be replaced;
-    :class:`ToolError` when ``clock`` has no setting that reaches the core clock,
-    or misses the tolerance without ``accept_clock_error``; ``ValueError`` for an
-    unknown pattern or a plan made for another spec.  Nothing is
-    written when anything is raised.
+    Raises :class:`SpecError` with every problem when the spec cannot have what was asked
+    (a minimum active area for the pattern; ``core.clock_enable`` for the clock-enable route
+    and iCE40's link) or a file may not be replaced; :class:`ToolError` for a plan with no
+    setting, or refused as above; ``ValueError`` for an unknown pattern or a plan made for
+    another spec.  Nothing is written when anything is raised.
     """
     _check_request(spec, pattern, clock, accept_clock_error)
     if link is not None:
@@ -143,7 +138,7 @@ def write(
         artifacts += clock_artifacts(clock)
     if clock is not None and pattern is not None:
         artifacts += board_artifacts(clock, pattern)
-    if link is not None and pattern is not None:
+    if link is not None and pattern is not None:  # _check_link refused a link without one
         artifacts += dvi_artifacts(link, pattern)
     return write_artifacts(artifacts, out_dir, force=force)
 
@@ -159,15 +154,9 @@ def _check_link(spec: Spec, pattern: str | None, clock: ClockPlan | None, link: 
                          f"({link.spec.source}), not for this one ({spec.source})")  # fmt: skip
     if link.problems:
         raise SpecError(list(link.problems))
-    if link.setting is None:
-        raise ToolError(f"no PLL setting of {link.family.key} reaches the serial clock "
-                        f"{hz(link.wanted_pixel_hz * SERIAL_FACTOR)} from {hz(link.f_board)}")  # fmt: skip
-    if not link.within_tolerance and not accept_clock_error:
-        raise ToolError(f"the link's pixel clock misses: {link_miss_text(link)}; pass "
-                        "accept_clock_error=True to write it anyway")  # fmt: skip
-    if not link.fits_io and not accept_io_limit:
-        raise ToolError(f"{io_text(link)}; pass accept_io_limit=True to write it anyway"
-                        + (f" (modes that fit: {', '.join(link.suggestions)})" if link.suggestions else ""))
+    why = link_refusal(link, accept_clock_error=accept_clock_error, accept_io_limit=accept_io_limit)
+    if why is not None:
+        raise ToolError(why)
 
 
 def _check_request(spec: Spec, pattern: str | None, clock: ClockPlan | None,

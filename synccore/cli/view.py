@@ -10,7 +10,7 @@ import click
 from rich.table import Table
 
 from synccore.cli._common import FAILED, console, fail, fail_spec, load_spec
-from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, refusal
+from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, link_plan_for, refusal
 from synccore.errors import SpecError
 from synccore.spec import Spec
 from synccore.units import hz
@@ -52,10 +52,14 @@ VCD_HINT = ("give the SPEC too (synccore view SPEC --vcd ...) to check that the 
               help="Keep the simulation folder here (default: a temporary folder).")
 @click.option("--link", type=click.Choice(("dvi",)), default=None,
               help="Send the picture over a TMDS link (DVI signalling) and receive it as a DVI "
-                   "sink does: symbol boundaries from the control tokens, decoding, then the monitor.")
+                   "sink does: symbol boundaries from the control tokens, decoding, then the monitor. "
+                   "Alone it runs the link core's words; with --board, the serial lanes of the whole "
+                   "DVI top.")
 @click.option("--board", "whole_board", is_flag=True,
               help="Simulate the board top from its clock pin (Icarus): the PLL as a model that "
-                   "derives its clock from the primitive's parameters, the reset held until lock.")
+                   "derives its clock from the primitive's parameters, the reset held until lock. "
+                   "With --link dvi: the DVI top, its serialiser's I/O primitives as models, the "
+                   "TMDS pins sampled at the bit rate.")
 @board_options
 @click.option(ACCEPT_OPTION, "accept_clock_error", is_flag=True,
               help="With --board: simulate even when the planned clock is outside the tolerance.")
@@ -78,9 +82,9 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     clock_problems: list[str] = []
     if not whole_board and (board_clock or family or no_pll or accept_clock_error):
         fail(f"--board-clock, --family, --no-pll and {ACCEPT_OPTION} need --board")
-    if link and (vcd or whole_board or engine == "builtin"):
-        fail("--link dvi simulates the link core on icarus, ghdl, verilator or model; "
-             "drop --vcd, --board and --sim builtin")  # fmt: skip
+    if link and (vcd or engine == "builtin"):
+        fail("--link dvi simulates the link core on icarus, ghdl, verilator or model (with --board, "
+             "the whole DVI top on icarus); drop --vcd and --sim builtin")  # fmt: skip
     if whole_board and (vcd or engine != "icarus"):
         fail("--board: the board top runs in Icarus only (the PLL models are Verilog); "
              "drop --vcd and --sim")  # fmt: skip
@@ -88,31 +92,26 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
         if spec is None:
             raise click.UsageError("--board needs a SPEC")
         s = _load(spec)
-        plan = build_plan(s, board_clock, family, no_pll)
-        if not plan.within_tolerance and not accept_clock_error:
-            fail(refusal(plan, spec, board_clock, option="--board", then="view"))
-        name = s.name
-        title = f"{s.name}_board ({pattern}) from its {hz(plan.f_board)} pin on icarus"
-        pins = _simulate_board(plan, pattern, work_dir, clock_notes, clock_problems)
+        title, pins = (_link_board if link else _board)(s, spec, pattern, board_clock, family, no_pll,
+                                                        accept_clock_error, work_dir, clock_notes,
+                                                        clock_problems)  # fmt: skip
     elif link:
         if spec is None:
             raise click.UsageError("--link needs a SPEC")
         s = _load(spec)
-        name = s.name
         title = f"{s.name} ({pattern}) over a DVI link on {engine}"
         pins = _receive(s, pattern, engine, work_dir, clock_notes, clock_problems)
     elif vcd:
         s = load_spec(spec) if spec is not None else None
         pins = _pins_from_vcd(vcd, mapping)
-        name = Path(vcd).stem
         title = f"{vcd}"
     else:
         if spec is None:
             raise click.UsageError("give a SPEC, or --vcd with --map")
         s = _load(spec)
-        name = s.name
         title = f"{s.name} ({pattern}) on {engine}"
         pins = _simulate(s, pattern, engine, work_dir)
+    name = s.name if s is not None and not vcd else Path(vcd or "view").stem
     mon = watch(pins, monitor_range=rng, spec=s)
     mon.notes[:0] = clock_notes
     mon.problems[:0] = clock_problems
@@ -194,6 +193,67 @@ def _receive(s: Spec, pattern: str, engine: str, work_dir: str | None, notes: li
     if rec.pins is None:
         fail((f"PROBLEM {problem}" for problem in problems), code=FAILED)
     return rec.pins
+
+
+def _board(s: Spec, spec: str, pattern: str, board_clock: str | None, family: str | None,
+           no_pll: bool, accept_clock_error: bool, work_dir: str | None, notes: list[str],
+           problems: list[str]) -> tuple[str, Pins]:  # fmt: skip
+    """``--board``: the title and the pins of the board top run from its clock pin."""
+    plan = build_plan(s, board_clock, family, no_pll)
+    if not plan.within_tolerance and not accept_clock_error:
+        fail(refusal(plan, spec, board_clock, option="--board", then="view"))
+    title = f"{s.name}_board ({pattern}) from its {hz(plan.f_board)} pin on icarus"
+    return title, _simulate_board(plan, pattern, work_dir, notes, problems)
+
+
+def _link_board(s: Spec, spec: str, pattern: str, board_clock: str | None, family: str | None,
+                no_pll: bool, accept_clock_error: bool, work_dir: str | None, notes: list[str],
+                problems: list[str]) -> tuple[str, Pins]:  # fmt: skip
+    """``--link dvi --board``: the DVI top from its clock pin, its TMDS pins read by the sink;
+    the title and the pins the sink decodes (its findings and the clocks measured go to
+    ``notes`` and ``problems``)."""
+    from synccore.clocking.link_report import io_text, link_miss_text
+    from synccore.picture.link import receive
+    from synccore.picture.link_serial import simulate_dvi
+    from synccore.picture.run import ViewError
+
+    if no_pll:
+        fail("--link dvi plans its own clocks through the family's PLL: drop --no-pll")
+    plan = link_plan_for(s, board_clock, family)
+    if plan.problems:
+        fail_spec(SpecError(list(plan.problems)))
+    if plan.setting is None or plan.serial_hz is None or plan.pixel_hz is None:
+        fail(f"the link's {link_miss_text(plan)}; choose another board clock")
+    if not plan.within_tolerance and not accept_clock_error:
+        fail(f"the link's {link_miss_text(plan)}; choose another board clock or a timing the PLL "
+             f"reaches, or pass {ACCEPT_OPTION} to view it anyway")  # fmt: skip
+    try:
+        if work_dir:
+            run = simulate_dvi(plan, pattern, work_dir=Path(work_dir))
+        else:
+            with tempfile.TemporaryDirectory(prefix="synccore-dvi-") as tmp:
+                run = simulate_dvi(plan, pattern, work_dir=Path(tmp))
+    except ViewError as err:
+        fail(str(err))
+    for label, measured, planned in (("serial clock", run.f_serial_hz, plan.serial_hz),
+                                     ("pixel clock", run.f_pixel_hz, plan.pixel_hz)):  # fmt: skip
+        line = (f"{label} measured on the DVI top: {measured / 1e6:.6f} MHz from the "
+                f"{hz(plan.f_board)} pin (planned {hz(planned)})")  # fmt: skip
+        # the models round each edge to 1 fs: a few parts in 10^8 at most
+        if abs(measured - float(planned)) > float(planned) * 1e-6:
+            problems.append(line + ": the PLL's parameters do not give the planned clock")
+        else:
+            notes.append(line)
+    if run.mismatches:
+        problems.append(f"{run.mismatches} samples where a TMDS _n pin was not the inverse of its _p pin")
+    if not plan.fits_io:
+        problems.append(io_text(plan))
+    rec = receive(run.lanes)
+    notes += [f"the sink read {run.lanes.source}", *rec.notes]
+    problems += rec.problems
+    if rec.pins is None:
+        fail((f"PROBLEM {problem}" for problem in problems), code=FAILED)
+    return f"{s.name}_dvi ({pattern}) from its board clock pin, serial lanes on icarus", rec.pins
 
 
 def _simulate_board(plan: ClockPlan, pattern: str, work_dir: str | None, notes: list[str],

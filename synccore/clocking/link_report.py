@@ -10,7 +10,8 @@ from synccore.clocking.report import percent_text, ppm_text, route_text
 from synccore.model import Timing
 from synccore.units import fixed, hz
 
-__all__ = ["io_text", "link_dict", "link_facts", "link_miss_text", "raster_name", "rate_text"]
+__all__ = ["io_text", "link_dict", "link_facts", "link_miss_text", "link_refusal", "raster_name",
+           "rate_text"]
 
 
 def rate_text(bits_per_second: Fraction) -> str:
@@ -127,3 +128,16 @@ def link_miss_text(plan: LinkPlan) -> str:
         return "no setting reaches the serial clock"
     return (f"pixel clock {hz(plan.pixel_hz)} for {hz(plan.wanted_pixel_hz)} wanted "
             f"({ppm_text(plan.ppm)}), outside +/-{pct} % ({plan.tolerance_source})")  # fmt: skip
+
+
+def link_refusal(plan: LinkPlan, *, accept_clock_error: bool, accept_io_limit: bool) -> str | None:
+    """Why ``plan`` may not be written as it is (one sentence, naming the way out), or None."""
+    if plan.setting is None:
+        return (f"no PLL setting of {plan.family.key} reaches the serial clock "
+                f"{hz(plan.wanted_pixel_hz * SERIAL_FACTOR)} from {hz(plan.f_board)}")  # fmt: skip
+    if not plan.within_tolerance and not accept_clock_error:
+        return f"the link's {link_miss_text(plan)}; pass accept_clock_error=True to write it anyway"
+    if not plan.fits_io and not accept_io_limit:
+        fits = f" (modes that fit: {', '.join(plan.suggestions)})" if plan.suggestions else ""
+        return f"{io_text(plan)}{fits}; pass accept_io_limit=True to write it anyway"
+    return None

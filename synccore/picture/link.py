@@ -49,6 +49,7 @@ class Lanes:
     period_s: float  # the pixel period
     words: np.ndarray  # (3, n): lane k's symbols as numbers, bit 0 first on the wire
     source: str  # what was sampled, for the report: "serial lanes" or "encoder words"
+    clock_bits: np.ndarray | None = None  # the clock lane's bit stream, when the pins were sampled
 
 
 @dataclass
@@ -58,11 +59,26 @@ class Reception:
     pins: Pins | None
     problems: list[str] = field(default_factory=list)
     notes: list[str] = field(default_factory=list)
+    boundary: int | None = None  # lane 0's symbol boundary, in bits into its stream
 
 
 def serial_bits(words: np.ndarray) -> np.ndarray:
     """A lane's bit stream, bit 0 of each symbol first."""
     return ((words[:, None] >> np.arange(WORD_BITS)) & 1).astype(np.uint8).reshape(-1)
+
+
+def lanes_from_bits(bits: np.ndarray, period_s: float, source: str, *,
+                    clock_bits: np.ndarray | None = None) -> Lanes:  # fmt: skip
+    """Lanes from each lane's sampled bit stream ((3, m) of 0/1, in time order).
+
+    The bits are packed ten to a number from the first sampled bit, wherever the sampling
+    began: these numbers are not yet symbols, and :func:`receive` finds the boundary from
+    the control tokens.  ``clock_bits`` (the clock lane's stream) is checked against the
+    boundary the data lanes show.
+    """
+    count = bits.shape[1] // WORD_BITS
+    cut = bits[:, : count * WORD_BITS].reshape(3, count, WORD_BITS).astype(np.int64)
+    return Lanes(period_s, cut @ _WEIGHTS, source, clock_bits)
 
 
 def symbols(bits: np.ndarray, offset: int, reverse: bool) -> np.ndarray:
@@ -89,6 +105,7 @@ def find_boundary(bits: np.ndarray) -> tuple[int, bool, int]:
 def _align(lanes: Lanes, rec: Reception) -> np.ndarray | None:
     """Each lane's symbols cut at the boundary its tokens show; None when a lane shows none."""
     out = []
+    rec.boundary = None
     for k in range(3):
         words = lanes.words[k]
         bits = serial_bits(words[:ALIGN_SYMBOLS])
@@ -103,6 +120,8 @@ def _align(lanes: Lanes, rec: Reception) -> np.ndarray | None:
         if offset:
             rec.notes.append(f"lane {k}: symbols start {offset} bits into the stream (found from the "
                              "control tokens)")  # fmt: skip
+        if k == 0:
+            rec.boundary = offset
         if offset or reverse:
             words = symbols(serial_bits(words), offset, reverse)
         out.append(words)
@@ -165,6 +184,25 @@ def _held(values: np.ndarray, control: np.ndarray) -> np.ndarray:
     return values[idx]
 
 
+CLOCK_SYMBOL = 0b0000011111
+"""The clock lane's symbol (contract; bit 0 first: five ones, then five zeros): one pixel
+clock period per symbol, its rising edge on the data lanes' symbol boundary."""
+
+
+def _check_clock(bits: np.ndarray, boundary: int, rec: Reception) -> None:
+    """The clock lane carries the pixel clock, rising where the data symbols start."""
+    head = bits[: ALIGN_SYMBOLS * WORD_BITS]
+    steady = [o for o in range(WORD_BITS) if len(head) >= (o + WORD_BITS)
+              and bool((symbols(head, o, False) == CLOCK_SYMBOL).all())]  # fmt: skip
+    if not steady:
+        rec.problems.append("clock lane: not the pixel clock (five bits high, five low, once per "
+                            "symbol): a DVI sink locks on it")  # fmt: skip
+    elif boundary not in steady:
+        late = (boundary - steady[0]) % WORD_BITS
+        rec.problems.append(f"clock lane: its rising edge is {late} bits before the data symbols "
+                            "start; the sink cuts the symbols where the clock rises")  # fmt: skip
+
+
 def receive(lanes: Lanes) -> Reception:
     """Align, check and decode ``lanes`` as a DVI sink does; the pins and the findings."""
     rec = Reception(None)
@@ -173,6 +211,8 @@ def receive(lanes: Lanes) -> Reception:
         return rec
     _check_roles(words, rec)
     _check_skew(words, rec)
+    if lanes.clock_bits is not None and rec.boundary is not None:
+        _check_clock(lanes.clock_bits, rec.boundary, rec)
     kinds = DECODE_KIND[words]
     values = DECODE_VALUE[words]
     control = kinds[0] == CONTROL

@@ -12,6 +12,9 @@ symbol boundary from the control tokens all the same.
 The ``model`` engine needs no HDL: the pins of the timing model and the pattern
 (:func:`synccore.picture.run.model_pins`) through the reference encoder
 (:func:`synccore.model.tmds.encode_stream`).
+
+The serial lanes themselves come from :mod:`synccore.picture.link_serial`, which runs the
+whole DVI top with behavioural models of those primitives (``view --link dvi --board``).
 """
 
 from __future__ import annotations
