@@ -2,7 +2,7 @@
 
 A golden file pins emitted text.  Refresh goldens only on purpose, then read the diff:
 
-    SYNCCORE_UPDATE_GOLDEN=1 python -m pytest tests/emit tests/picture/test_pattern.py
+    SYNCCORE_UPDATE_GOLDEN=1 python -m pytest tests/emit tests/link tests/picture/test_pattern.py
 """
 
 from __future__ import annotations
