@@ -60,10 +60,12 @@ def _text(report: FitReport) -> list[str]:
               help="With --top: the board oscillator (default: the spec's board.clock_hz).")
 @click.option("--family", default=None, metavar="FAMILY",
               help="With --top: the FPGA family; must be the part's.")
+@click.option("--accept-clock-error", is_flag=True,
+              help="With --top: fit a clock plan outside the monitors' tolerance anyway.")
 @click.option("--seed", default=1, show_default=True, type=int, help="nextpnr's placement seed.")
 @click.option("--json", "as_json", is_flag=True, help="Print the figures as JSON.")
 def fit_command(spec_path: str, part: str, top: bool, link: str | None, board_clock: str | None,
-                family: str | None, seed: int, as_json: bool) -> None:  # fmt: skip
+                family: str | None, accept_clock_error: bool, seed: int, as_json: bool) -> None:  # fmt: skip
     """Synthesise SPEC's core with Yosys, place and route it with nextpnr, report the fit."""
     spec = load_spec(spec_path)
     try:
@@ -71,7 +73,8 @@ def fit_command(spec_path: str, part: str, top: bool, link: str | None, board_cl
         if family is not None and family != chosen.family:
             fail(f"--family: {family!r} is not the family of {chosen.name} ({chosen.family})")
         report = fit(spec, chosen.key, top=top or link is not None, link=link,
-                     board_clock_hz=board_clock, seed=seed)  # fmt: skip
+                     board_clock_hz=board_clock, accept_clock_error=accept_clock_error,
+                     seed=seed)  # fmt: skip
     except SpecError as err:
         fail_spec(err)
     except ToolError as err:

@@ -242,7 +242,8 @@ def suggest_ppc(spec: Spec, fmax_mhz: float) -> tuple[int | None, str]:
 
 
 def fit(spec: Spec, part: str, *, top: bool = False, link: str | None = None,
-        board_clock_hz: object = None, suggest: bool = True, seed: int = 1) -> FitReport:  # fmt: skip
+        board_clock_hz: object = None, accept_clock_error: bool = False, suggest: bool = True,
+        seed: int = 1) -> FitReport:  # fmt: skip
     """Synthesise and place and route ``spec``'s core (or, ``top=True``, its first-light
     design) in ``part``; Yosys's LUTs, flip-flops and carry cells, nextpnr's Fmax per clock.
 
@@ -250,8 +251,10 @@ def fit(spec: Spec, part: str, *, top: bool = False, link: str | None = None,
     vendor's spelling (``LFE5U-25F``, ``iCE40HX8K``...).  With ``top=True`` the board top
     ``<name>_board`` (PLL from ``board_clock_hz``, default the spec's ``board.clock_hz``)
     or, ``link="dvi"``, the DVI top ``<name>_dvi`` is fitted, each clock domain against
-    its plan.  When the bare core misses its clock (and ``suggest``), the report names
-    the pixels_per_clock that would meet it and holds the fit at that setting.
+    its plan; a plan outside the monitors' tolerance is refused unless
+    ``accept_clock_error=True``, as :func:`synccore.write` does.  When the bare core
+    misses its clock (and ``suggest``), the report names the pixels_per_clock that would
+    meet it and holds the fit at that setting.
     Raises :class:`ToolError` for an unknown part, a missing wheel or a failing tool.
     """
     chosen = find_part(part)
@@ -259,7 +262,7 @@ def fit(spec: Spec, part: str, *, top: bool = False, link: str | None = None,
         from synccore.verification.fit_top import fit_top
 
         return FitReport(fit_top(spec, chosen, link=link, board_clock_hz=board_clock_hz,
-                                 seed=seed))  # fmt: skip
+                                 accept_clock_error=accept_clock_error, seed=seed))  # fmt: skip
     result = fit_core(spec, chosen, seed=seed)
     clock = result.clocks[0]
     if result.met or not suggest or clock.fmax_mhz is None:

@@ -18,6 +18,7 @@ from synccore.clocking import FAMILIES
 from synccore.clocking.link import plan_link
 from synccore.clocking.link_report import link_refusal
 from synccore.clocking.plan import make_plan
+from synccore.clocking.report import miss_text
 from synccore.emit.files import (
     Artifact,
     board_artifacts,
@@ -49,26 +50,31 @@ def _board_clock(spec: Spec, value: object) -> Fraction:
     return f_board
 
 
-def _board_design(spec: Spec, part: Part, f_board: Fraction
+def _board_design(spec: Spec, part: Part, f_board: Fraction, accept: bool
                   ) -> tuple[list[Artifact], list[tuple[str, float]], tuple[str, ...]]:  # fmt: skip
     plan = make_plan(spec, f_board=f_board, family=FAMILIES[part.family])
     best = plan.best
     if best is None:
         raise ToolError(f"no PLL setting of {part.family} reaches {hz(plan.target)} "
                         f"from {hz(f_board)}")  # fmt: skip
+    if not plan.within_tolerance and not accept:
+        raise ToolError(f"the clock plan misses: {miss_text(plan)}; apply its adjustment "
+                        "(synccore clock --write) or pass accept_clock_error=True "
+                        "(--accept-clock-error)")  # fmt: skip
     arts = core_artifacts(spec) + pattern_artifacts(spec, PATTERN) + clock_artifacts(plan)
     arts += board_artifacts(plan, PATTERN)
     return arts, [("pixel_clk", float(best.f_out))], BOARD_SOURCES
 
 
-def _dvi_design(spec: Spec, part: Part, f_board: Fraction
+def _dvi_design(spec: Spec, part: Part, f_board: Fraction, accept: bool
                 ) -> tuple[list[Artifact], list[tuple[str, float]], tuple[str, ...]]:  # fmt: skip
     plan = plan_link(spec, f_board=f_board, family=part.family)
     if plan.problems:
         raise SpecError(list(plan.problems))
-    why = link_refusal(plan, accept_clock_error=False, accept_io_limit=False)
+    why = link_refusal(plan, accept_clock_error=accept, accept_io_limit=False)
     if why is not None:
-        raise ToolError(why)
+        raise ToolError(why.replace("accept_clock_error=True",
+                                    "accept_clock_error=True (--accept-clock-error)"))
     assert plan.core_hz is not None and plan.serial_hz is not None
     arts = core_artifacts(spec) + pattern_artifacts(spec, PATTERN) + dvi_artifacts(plan, PATTERN)
     if part.family == "ice40":  # one net: the core runs on the serial clock with a ce
@@ -99,14 +105,14 @@ def _fit_in(spec: Spec, part: Part, folder: Path, arts: list[Artifact],
 
 
 def fit_top(spec: Spec, part: Part, *, link: str | None, board_clock_hz: object,
-            seed: int = 1) -> FitResult:  # fmt: skip
+            accept_clock_error: bool = False, seed: int = 1) -> FitResult:  # fmt: skip
     """The first-light top of ``spec`` (``link="dvi"``: the DVI top) in ``part`` (cached)."""
     if link not in (None, "dvi"):
         raise ToolError(f"unknown link {link!r}; choose dvi", subject="link")
     f_board = _board_clock(spec, board_clock_hz)
     dvi = link == "dvi"
     design = _dvi_design if dvi else _board_design
-    arts, clocks, sources = design(spec, part, f_board)
+    arts, clocks, sources = design(spec, part, f_board, accept_clock_error)
     texts = [a.name + "\n" + a.text for a in sorted(arts, key=lambda a: a.name)]
     key = cache_key(texts, part, "dvi" if dvi else "board", seed)
     return cached_fit(key, part, lambda folder: _fit_in(spec, part, folder, arts, clocks,

