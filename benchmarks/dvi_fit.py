@@ -20,7 +20,7 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))  # the tests' job table
 
-from tests.first_light.fit import Domain, Placed  # noqa: E402
+from synccore.verification.pnr import Domain, Placed  # noqa: E402
 from tests.link.dvi_jobs import JOBS, fit_dvi  # noqa: E402
 
 # Yosys's cell types per family: logic (LUTs; carry cells apart) and flip-flops

@@ -50,13 +50,12 @@ from synccore.verification.engines import (
     cocotb_missing,
 )
 from synccore.verification.engines import verify as run_engines
+from synccore.verification.fit import fit
 from synccore.verification.tools import INSTALL_HINT, unusable
 
 __all__ = [
     "Axis",
-    "ClockPlan",
-    "LinkPlan",
-    "CoreOptions",
+    "ClockPlan", "LinkPlan", "CoreOptions",
     "Location",
     "Mode",
     "Outputs",
@@ -70,6 +69,7 @@ __all__ = [
     "adjusted_spec",
     "adjusted_text",
     "find_mode",
+    "fit",
     "json_schema",
     "plan_dvi_link",
     "load",

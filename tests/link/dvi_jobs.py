@@ -2,7 +2,7 @@
 
 Each job writes the whole DVI design (``synccore.write(..., link=plan_dvi_link(...))``),
 synthesises the top ``<name>_dvi`` with Yosys and places and routes it with nextpnr
-through tests/first_light/fit.py.  Used by tests/link/test_dvi_fit.py and
+through the package's place and route (synccore.verification.pnr).  Used by tests/link/test_dvi_fit.py and
 benchmarks/dvi_fit.py.
 """
 
@@ -13,7 +13,8 @@ from pathlib import Path
 
 import synccore
 from synccore.clocking.link import LinkPlan
-from tests.first_light.fit import Part, Placed, place_and_route
+from synccore.verification.pnr import Flow as Part
+from synccore.verification.pnr import Placed, board_options, place_and_route
 
 NAME = "vga"
 
@@ -89,6 +90,7 @@ def fit_dvi(job: DviJob, folder: Path) -> tuple[LinkPlan, Placed]:
     plan = plan_of(job)
     synccore.write(plan.spec, folder, pattern="bars", link=plan)
     sources = [f"{NAME}{suffix}.v" for suffix in SOURCES]
+    options = board_options(job.part, folder, f"{NAME}_dvi", job.pins)
     placed = place_and_route(job.part, folder, top=f"{NAME}_dvi", sources=sources,
-                             pins=job.pins, clock_nets=job.clock_nets)  # fmt: skip
+                             options=options, clock_nets=job.clock_nets)  # fmt: skip
     return plan, placed
