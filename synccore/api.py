@@ -50,7 +50,7 @@ from synccore.verification.engines import (
     cocotb_missing,
 )
 from synccore.verification.engines import verify as run_engines
-from synccore.verification.fit import fit
+from synccore.verification.fitting import fit
 from synccore.verification.tools import INSTALL_HINT, unusable
 
 __all__ = [
