@@ -12,6 +12,7 @@ from synccore._version import __version__
 from synccore.cli.build import build
 from synccore.cli.clock import clock
 from synccore.cli.modes import modes_command, new_command
+from synccore.cli.prove import prove_command
 from synccore.cli.show import schema, show
 from synccore.cli.verify import verify_command
 from synccore.cli.view import view_command
@@ -24,5 +25,5 @@ def main() -> None:
 
 
 for command in (build, show, schema, modes_command, new_command, verify_command, clock,
-                view_command):  # fmt: skip
+                view_command, prove_command):  # fmt: skip
     main.add_command(command)

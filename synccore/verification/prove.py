@@ -12,12 +12,14 @@ by hand is judged on its ports only, by ``abc pdr`` straight away.
 
 from __future__ import annotations
 
+import re
+import shutil
 import tempfile
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from synccore.emit import render_verilog
-from synccore.emit.formal import PROPERTY_NAMES, build_formal_context, render_properties
+from synccore.emit.formal import PROPERTY_NAMES, FormalContext, build_formal_context, render_properties
 from synccore.errors import ToolError
 from synccore.model import Timing
 from synccore.spec import Spec
@@ -69,6 +71,11 @@ class ProofResult:
         return self.verdict == "PASS"
 
     @property
+    def properties(self) -> tuple[str, ...]:
+        """The names of the properties the wrapper asserts on the core's ports."""
+        return tuple(PROPERTY_NAMES[label] for label in self.labels)
+
+    @property
     def seconds(self) -> float:
         return sum(a.seconds for a in self.attempts)
 
@@ -81,40 +88,102 @@ def formal_missing() -> str | None:
     return f"formal proof tools not found ({', '.join(missing)}): {FORMAL_HINT}"
 
 
-def prove(spec: Spec, *, core_text: str | None = None, ports_only: bool = True, depth: int = 2,
-          work_dir: Path | None = None, timeout: float = 300.0) -> ProofResult:  # fmt: skip
-    """Prove ``spec``'s Verilog core (or ``core_text``, a core edited by hand) against the model.
+def prove(spec: Spec, *, core: str | Path | None = None, depth: int = 2,
+          work_dir: str | Path | None = None, timeout: float = 300.0) -> ProofResult:  # fmt: skip
+    """Prove ``spec``'s Verilog core, or the core in the file ``core``, against the timing model.
 
-    ``ports_only=False`` proves ``core_text`` as a generated core (by k-induction with
-    the invariants on its counters ``h_pos``/``v_pos``/``h_lead``/``v_lead``), for a
-    generated core's text mutated on purpose.  ``depth``: the k of k-induction for a generated core.  ``work_dir``: keep the
-    job folders there (default: a temporary folder, kept only for a failure's VCD).
-    ``timeout``: seconds allowed to each SymbiYosys job.  Raises :class:`ToolError`
-    when the tools are missing or a job cannot run (e.g. the core does not parse).
+    Without ``core`` the emitted core is proved by k-induction of ``depth`` steps with
+    invariants on its counters (then by PDR if induction fails); with ``core`` (a core
+    edited by hand, whose internals are unknown) its ports are proved by PDR.  Every
+    output is asserted on every cycle against a reference counter, reset at any moment.
+    ``work_dir``: keep the job folders there (default: a temporary folder, kept for the
+    VCD).  ``timeout``: seconds allowed to each SymbiYosys job.  The verdict is a result
+    (``result.passed``), not an exception.
+
+    Raises :class:`ToolError` when the proof tools are missing (install them with
+    ``pip install 'synccore[formal]'``) or a job cannot run (e.g. the core does not
+    parse), ``FileNotFoundError`` for a missing ``core``, ``ValueError`` for depth < 1.
+    """
+    text = Path(core).read_text(encoding="utf-8") if core is not None else None
+    return prove_text(spec, text, depth=depth, timeout=timeout,
+                      work_dir=Path(work_dir) if work_dir is not None else None)  # fmt: skip
+
+
+def prove_text(spec: Spec, core_text: str | None, *, ports_only: bool = True, depth: int = 2,
+               work_dir: Path | None = None, timeout: float = 300.0) -> ProofResult:  # fmt: skip
+    """:func:`prove` of ``core_text`` (None: the emitted core).
+
+    ``ports_only=False`` proves ``core_text`` as a generated core (k-induction with the
+    invariants on ``h_pos``/``v_pos``/``h_lead``/``v_lead``): for a generated core's text
+    mutated on purpose.
     """
     if depth < 1:
         raise ValueError(f"depth must be at least 1, got {depth}")
     problem = formal_missing()
     if problem:
         raise ToolError(problem)
-    folder = Path(work_dir) if work_dir is not None else Path(tempfile.mkdtemp(prefix="synccore_prove_"))
+    temporary = work_dir is None
+    folder = Path(tempfile.mkdtemp(prefix="synccore_prove_")) if work_dir is None else Path(work_dir)
     folder.mkdir(parents=True, exist_ok=True)
-    t = Timing(spec)
+    try:
+        result = _run(Timing(spec), core_text, ports_only=ports_only, depth=depth, folder=folder,
+                      timeout=timeout)  # fmt: skip
+    except BaseException:
+        if temporary:
+            shutil.rmtree(folder, ignore_errors=True)
+        raise
+    if temporary and result.passed:
+        shutil.rmtree(folder, ignore_errors=True)
+        return replace(result, work_dir=None)
+    return result
+
+
+def _run(t: Timing, core_text: str | None, *, ports_only: bool, depth: int, folder: Path,
+         timeout: float) -> ProofResult:  # fmt: skip
     if core_text is not None and ports_only:
-        attempt, run = _job(t, folder / "pdr", core_text, PDR, depth, internals=False, timeout=timeout)
-        return _result(t, "PDR on the core's ports (abc pdr)", (attempt,), run, folder)
-    core = render_verilog(spec) if core_text is None else core_text
+        return _run_edited(t, core_text, depth=depth, folder=folder, timeout=timeout)
+    core = render_verilog(t.spec) if core_text is None else core_text
     attempt, run = _job(t, folder / "induction", core, INDUCTION, depth, internals=True, timeout=timeout)
     method = f"k-induction (smtbmc z3, depth {depth}) with invariants on the core's counters"
     if run.status != "UNKNOWN":
         return _result(t, method, (attempt,), run, folder)
+    # Induction failed: PDR on the ports finds a run from reset that breaks a property
+    # (or proves them all, when only the invariants were too weak at this depth).
     second, pdr = _job(t, folder / "pdr", core, PDR, depth, internals=False, timeout=timeout)
     if pdr.status in ("PASS", "FAIL"):
         return _result(t, f"{method}; induction failed, then PDR (abc pdr)", (attempt, second), pdr, folder)
-    result = _result(t, method, (attempt, second), run, folder)
-    return ProofResult(**{**result.__dict__, "note": "PDR found no run from reset that breaks it "
-                          f"({pdr.status.lower()}); the trace starts from a state that satisfies every "
-                          "property for the depth"})  # fmt: skip
+    note = (f"PDR found no run from reset that breaks it ({pdr.status.lower()}); the trace starts "
+            f"from a state that satisfies every property for {depth} cycles")  # fmt: skip
+    return replace(_result(t, method, (attempt, second), run, folder), note=note)
+
+
+def _run_edited(t: Timing, core_text: str, *, depth: int, folder: Path, timeout: float) -> ProofResult:
+    """A core edited by hand: its ports by PDR, after a quick try of the generated core's invariants.
+
+    When the file still declares the generated core's counters (same names, same
+    widths), k-induction with the invariants on them is tried first: if it passes,
+    every port property is proved (the invariants are proved with them).  Otherwise,
+    or if it fails, PDR judges the ports alone and finds any counterexample from reset.
+    """
+    attempts: tuple[Attempt, ...] = ()
+    if _has_counters(build_formal_context(t, internals=True), core_text):
+        first, run = _job(t, folder / "induction", core_text, INDUCTION, depth, internals=True,
+                          timeout=timeout)  # fmt: skip
+        if run.status == "PASS":
+            method = (f"k-induction (smtbmc z3, depth {depth}) with invariants on the counters "
+                      "the edited core still declares")  # fmt: skip
+            return _result(t, method, (first,), run, folder)
+        attempts = (first,)
+    attempt, run = _job(t, folder / "pdr", core_text, PDR, depth, internals=False, timeout=timeout)
+    return _result(t, "PDR on the core's ports (abc pdr)", (*attempts, attempt), run, folder)
+
+
+def _has_counters(ctx: FormalContext, text: str) -> bool:
+    """Whether ``text`` declares every counter the invariants read, with the generated widths."""
+    for _, signal, msb in ctx.internal_wires:
+        if not re.search(rf"\breg\s*\[\s*{msb}\s*:\s*0\s*\]\s*{signal}\s*;", text):
+            return False
+    return True
 
 
 def _job(t: Timing, folder: Path, core: str, engine: str, depth: int, *, internals: bool,
