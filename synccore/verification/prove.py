@@ -211,7 +211,8 @@ def _result(t: Timing, method: str, attempts: tuple[Attempt, ...], run: SbyRun, 
     rows: list[TraceRow] = []
     if run.trace is not None and run.trace.is_file():
         steps = read_steps(run.trace)
-        rows = trace_rows(t, steps, reset_port=ctx.port["reset"], ce_port=ctx.port.get("ce") if ctx.has_ce else None,
+        ce = ctx.port["ce"] if ctx.has_ce else None
+        rows = trace_rows(t, steps, reset_port=ctx.port["reset"], ce_port=ce,
                           reset_async=ctx.reset_async, last=run.step)  # fmt: skip
     return ProofResult(
         t.spec.name, "FAIL", method, attempts, failed=names, trace=tuple(rows),
