@@ -66,17 +66,20 @@ def _print(result: ProofResult) -> None:
                    "(default: the core synccore generates from SPEC).")
 @click.option("--depth", default=2, show_default=True, type=click.IntRange(1, 1000),
               help="Steps of k-induction.")
+@click.option("--timeout", default=300.0, show_default=True, type=click.FloatRange(1, None),
+              help="Seconds allowed to each SymbiYosys job.")
 @click.option("--json", "as_json", is_flag=True, help="Print the result as JSON.")
 @click.option("--work-dir", type=click.Path(file_okay=False),
               help="Keep the proof's files here (default: a temporary folder, kept on failure).")
-def prove_command(spec: str, core: str | None, depth: int, as_json: bool, work_dir: str | None) -> None:
+def prove_command(spec: str, core: str | None, depth: int, timeout: float, as_json: bool,
+                  work_dir: str | None) -> None:  # fmt: skip
     """Prove SPEC's Verilog core against the timing model for all time (SymbiYosys, k-induction)."""
     s = load_spec(spec)
     missing = formal_missing()
     if missing:
         fail(missing)
     try:
-        result = prove(s, core=Path(core) if core else None, depth=depth,
+        result = prove(s, core=Path(core) if core else None, depth=depth, timeout=timeout,
                        work_dir=Path(work_dir) if work_dir else None)  # fmt: skip
     except ToolError as err:
         fail(str(err))

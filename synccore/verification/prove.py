@@ -125,13 +125,9 @@ def prove_text(spec: Spec, core_text: str | None, *, ports_only: bool = True, de
     temporary = work_dir is None
     folder = Path(tempfile.mkdtemp(prefix="synccore_prove_")) if work_dir is None else Path(work_dir)
     folder.mkdir(parents=True, exist_ok=True)
-    try:
-        result = _run(Timing(spec), core_text, ports_only=ports_only, depth=depth, folder=folder,
-                      timeout=timeout)  # fmt: skip
-    except BaseException:
-        if temporary:
-            shutil.rmtree(folder, ignore_errors=True)
-        raise
+    # kept unless the proof passes: a failure's VCD and a job's log stay for the user
+    result = _run(Timing(spec), core_text, ports_only=ports_only, depth=depth, folder=folder,
+                  timeout=timeout)  # fmt: skip
     if temporary and result.passed:
         shutil.rmtree(folder, ignore_errors=True)
         return replace(result, work_dir=None)
@@ -196,7 +192,7 @@ def _job(t: Timing, folder: Path, core: str, engine: str, depth: int, *, interna
     write_job(folder, top=ctx.name, engine=engine, depth=depth, connect=connect)
     run = run_job(folder, timeout=timeout)
     if run.status == "ERROR":
-        raise ToolError(f"the proof could not run ({engine}): {run.error}; log: {run.log}")
+        raise ToolError(f"the proof could not run ({engine}): {run.error.rstrip('.')}; log: {run.log}")
     return Attempt(engine, depth, run.status, run.seconds, folder), run
 
 
