@@ -7,7 +7,8 @@ k-induction (``smtbmc z3``) at a small depth: invariants tie the core's counters
 to the reference, so no run through a whole frame is needed.  When induction
 fails, ``abc pdr`` (IC3/PDR, which finds its own invariants and only real
 counterexamples) looks for a run from reset that breaks a property.  A core edited
-by hand is judged on its ports only, by ``abc pdr`` straight away.
+by hand is judged on its ports: by k-induction with the same invariants when it still
+declares the generated counters (a pass proves its ports too), else by ``abc pdr``.
 """
 
 from __future__ import annotations
