@@ -83,18 +83,33 @@ def trace_rows(t: Timing, steps: list[dict[str, int]], *, reset_port: str, ce_po
     if not steps:
         return []
     end = len(steps) - 1 if last is None or last >= len(steps) else last
+    if last is None:  # no step named (a counterexample to induction): end at the first mismatch
+        end = next((k for k in range(1, len(steps)) if _mismatch(t, steps[k], reset_async)), end)
     rows = []
-    resets = t.reset_outputs()
     for k in range(max(1, end - before), end + 1):  # step 0: before the first edge, unchecked
         s = steps[k]
-        reset_now = s.get("reset_now", 0)
-        idle = not s.get("ref_run", 0) or (reset_async and reset_now)
+        idle = _idle(s, reset_async)
         got = {o: s.get(f"core_{o}", 0) for o in OUTPUTS}
-        want = {o: getattr(resets, o) if idle else s.get(f"exp_{o}", 0) for o in OUTPUTS}
+        want = _expected(t, s, reset_async)
         where = "reset" if idle else f"({s.get('ref_h', 0)}, {s.get('ref_v', 0)})"
         rows.append(TraceRow(k, s.get(reset_port, 0), s.get(ce_port) if ce_port else None,
                              where, got, want))  # fmt: skip
     return rows
+
+
+def _idle(s: dict[str, int], reset_async: bool) -> bool:
+    """Whether the reference shows the reset values on this step."""
+    return not s.get("ref_run", 0) or bool(reset_async and s.get("reset_now", 0))
+
+
+def _expected(t: Timing, s: dict[str, int], reset_async: bool) -> dict[str, int]:
+    resets = t.reset_outputs()
+    idle = _idle(s, reset_async)
+    return {o: getattr(resets, o) if idle else s.get(f"exp_{o}", 0) for o in OUTPUTS}
+
+
+def _mismatch(t: Timing, s: dict[str, int], reset_async: bool) -> bool:
+    return any(s.get(f"core_{o}", 0) != want for o, want in _expected(t, s, reset_async).items())
 
 
 def table_lines(rows: list[TraceRow], *, reset_name: str) -> list[str]:
