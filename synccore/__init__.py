@@ -4,8 +4,9 @@ A YAML timing description is read into a :class:`Spec` (:func:`load`,
 :func:`loads`), derived into a :class:`Timing` (:func:`timing`; the reference
 model every test checks against), written as Verilog-2001 and VHDL cores with
 optional benches, test-pattern design and clock wrapper (:func:`write`,
-:func:`plan_clock`, :func:`adjusted_spec` when the board cannot make the clock), and
-measured in simulation (:func:`verify`).  Standard timings come from :func:`find_mode`.
+:func:`plan_clock`, :func:`adjusted_spec` when the board cannot make the clock),
+measured in simulation (:func:`verify`) and proved for all time (:func:`prove`).
+Standard timings come from :func:`find_mode`.
 
 This package exports the curated API of :mod:`synccore.api` and nothing else;
 docs/api.md describes it with a worked example.
@@ -20,6 +21,7 @@ from synccore.api import (
     Mode,
     Outputs,
     Problem,
+    ProofResult,
     Report,
     Spec,
     SpecError,
@@ -35,6 +37,7 @@ from synccore.api import (
     loads,
     plan_clock,
     plan_dvi_link,
+    prove,
     render_verilog,
     render_vhdl,
     timing,
@@ -51,6 +54,7 @@ __all__ = [
     "Mode",
     "Outputs",
     "Problem",
+    "ProofResult",
     "Report",
     "Spec",
     "SpecError",
@@ -66,6 +70,7 @@ __all__ = [
     "loads",
     "plan_clock",
     "plan_dvi_link",
+    "prove",
     "render_verilog",
     "render_vhdl",
     "timing",

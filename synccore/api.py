@@ -1,14 +1,12 @@
 """The Python API: read a timing, write its files, plan its clock, verify it.
 
 Every function here is re-exported from :mod:`synccore`; docs/api.md shows
-them at work.  The command line calls the same functions, so a script and
-``synccore build`` write the same files and meet the same errors:
+them at work; options are keyword-only.  The command line calls the same functions, so a
+script and ``synccore build`` write the same files and meet the same errors:
 
 * :class:`SpecError` for what a timing description says (every problem, located);
 * :class:`ToolError` for what the machine or the board cannot do (one sentence);
 * ``ValueError`` and ``TypeError`` for arguments a caller got wrong.
-
-Options are keyword-only.
 """
 
 from __future__ import annotations
@@ -51,6 +49,7 @@ from synccore.verification.engines import (
 )
 from synccore.verification.engines import verify as run_engines
 from synccore.verification.fitting import fit
+from synccore.verification.prove import ProofResult, prove
 from synccore.verification.tools import INSTALL_HINT, unusable
 
 __all__ = [
@@ -60,6 +59,7 @@ __all__ = [
     "Mode",
     "Outputs",
     "Problem",
+    "ProofResult",
     "Report",
     "Spec",
     "SpecError",
@@ -75,6 +75,7 @@ __all__ = [
     "load",
     "loads",
     "plan_clock",
+    "prove",
     "render_verilog",
     "render_vhdl",
     "timing",

@@ -13,6 +13,7 @@ from synccore.cli.build import build
 from synccore.cli.clock import clock
 from synccore.cli.fit import fit_command
 from synccore.cli.modes import modes_command, new_command
+from synccore.cli.prove import prove_command
 from synccore.cli.show import schema, show
 from synccore.cli.verify import verify_command
 from synccore.cli.view import view_command
@@ -25,5 +26,5 @@ def main() -> None:
 
 
 for command in (build, show, schema, modes_command, new_command, verify_command, clock,
-                view_command, fit_command):  # fmt: skip
+                view_command, fit_command, prove_command):  # fmt: skip
     main.add_command(command)
