@@ -17,7 +17,8 @@ import click
 from rich.table import Table
 
 from synccore.cli._common import FAILED, console, fail
-from synccore.spec import CoreOptions, Spec, parse_frequency
+from synccore.cli.edid import load_edid
+from synccore.spec import Axis, CoreOptions, Spec, parse_frequency
 from synccore.timings import formulas, modeline, modes
 from synccore.timings.writing import spec_text
 from synccore.units import fixed, hz, in_unit
@@ -90,17 +91,28 @@ def _default_name(width: int, height: int, rate: str) -> str:
 @click.option("--modeline", "modeline_text", metavar="LINE",
               help='Start from an X.Org modeline, e.g. "74.25 1280 1390 1430 1650 720 725 '
                    '730 750 +hsync +vsync".')
+@click.option("--edid", "edid_file", metavar="FILE",
+              help="Start from a detailed timing of a display's EDID (binary or hex dump).")
+@click.option("--pick", type=click.IntRange(min=1), metavar="N",
+              help="With --edid: the Nth detailed timing (default 1, the preferred one).")
 @click.option("--name", metavar="IDENT", help="Module / entity name (default from the mode).")
 @click.option("--force", is_flag=True, help="Overwrite FILE if it exists.")
 def new_command(mode: str | None, out: str, method: str | None, video_optimized: bool,
-                modeline_text: str | None, name: str | None, force: bool) -> None:  # fmt: skip
+                modeline_text: str | None, edid_file: str | None, pick: int | None,
+                name: str | None, force: bool) -> None:  # fmt: skip
     """Write a complete, editable timing description for MODE.
 
     MODE is a library name or source (`1280x720@60`, `DMT 55h` or `0x55`, `CTA VIC 16`,
     `1280x768@60 rb`; see `synccore modes`), or WIDTHxHEIGHT@RATE with --method.
     """
     notes: tuple[str, ...]
-    if modeline_text is not None:
+    if pick is not None and edid_file is None:
+        _bad("--pick needs --edid")
+    if edid_file is not None:
+        if mode or method or modeline_text:
+            _bad("--edid replaces MODE, --method and --modeline; give one")
+        clock, h, v, default, origin, notes = _from_edid(edid_file, pick or 1)
+    elif modeline_text is not None:
         if mode or method:
             _bad("--modeline replaces MODE and --method; give one")
         try:
@@ -149,6 +161,28 @@ def new_command(mode: str | None, out: str, method: str | None, video_optimized:
     header = (f"Timing description written by `synccore new` from {origin}.",
               *(f"Note: {n}" for n in notes))  # fmt: skip
     _put_out(spec_text(spec, comments=header), out, force)
+
+
+def _from_edid(path: str, pick: int) -> tuple[Fraction, Axis, Axis, str, str, tuple[str, ...]]:
+    """Detailed timing ``pick`` of the EDID at ``path``: its numbers, a name, where it came from."""
+    found = load_edid(path)
+    timings = found.all_detailed
+    if not timings:
+        _bad(f"--edid {path}: the EDID has no detailed timing")
+    if pick > len(timings):
+        _bad(f"--pick {pick}: the EDID has {len(timings)} detailed timing(s)")
+    d = timings[pick - 1]
+    if d.refusal:
+        _bad(f"--edid {path}: detailed timing {pick} ({d.name}) is {d.refusal}")
+    for problem in found.problems:
+        click.echo(f"{path}: warning: {problem}", err=True)
+    who = " ".join(x for x in (found.manufacturer, found.monitor_name) if x)
+    origin = (f"detailed timing {pick}{' (preferred)' if pick == 1 else ''} ({d.where}) "
+              f"of the EDID {Path(path).name} ({who})")  # fmt: skip
+    notes = tuple(f"the EDID is damaged: {p}" for p in found.problems)
+    rate = d.name.split("@")[1]
+    default = _default_name(d.horizontal.active, d.vertical.active, rate)
+    return Fraction(d.pixel_clock_hz), d.horizontal, d.vertical, default, origin, notes
 
 
 def _put_out(text: str, out: str, force: bool) -> None:

@@ -311,7 +311,7 @@ def decode(data: bytes) -> Edid:
         raise EdidError("not an EDID: it does not start with the header "
                         "00 FF FF FF FF FF FF 00 (E-EDID 1.4 section 3.3)")  # fmt: skip
     problems: list[str] = []
-    if head != HEADER:
+    if len(head) == len(HEADER) and head != HEADER:
         problems.append(f"header: {head.hex(' ').upper()} is not 00 FF FF FF FF FF FF 00 "
                         "(section 3.3)")  # fmt: skip
     base = data[:BLOCK]
