@@ -145,22 +145,26 @@ def new_command(mode: str | None, out: str, method: str | None, video_optimized:
     else:
         if video_optimized:
             _bad("--video-optimized needs --method cvt-rb2")
-        try:
-            found = modes.find(mode)
-        except modes.ModeLookupError as exc:
-            _bad(f"MODE {exc}, got {mode!r}")
-            return
-        default = _default_name(found.horizontal.active, found.vertical.active,
-                                found.refresh_label)  # fmt: skip
-        origin = f"{found.source} ({found.name})"
-        clock, h, v = found.pixel_clock_hz, found.horizontal, found.vertical
-        notes = (found.note,) if found.note else ()
+        clock, h, v, default, origin, notes = _from_library(mode)
     # lead 1: the first-light pattern's one pipeline stage then meets de undelayed (docs/picture.md).
     spec = Spec(name=name or default, pixel_clock_hz=clock, horizontal=h, vertical=v,
                 core=CoreOptions(lead=1))
     header = (f"Timing description written by `synccore new` from {origin}.",
               *(f"Note: {n}" for n in notes))  # fmt: skip
     _put_out(spec_text(spec, comments=header), out, force)
+
+
+def _from_library(mode: str) -> tuple[Fraction, Axis, Axis, str, str, tuple[str, ...]]:
+    """The library entry MODE names: its numbers, a name, where it came from, its note."""
+    try:
+        found = modes.find(mode)
+    except modes.ModeLookupError as exc:
+        _bad(f"MODE {exc}, got {mode!r}")
+    default = _default_name(found.horizontal.active, found.vertical.active,
+                            found.refresh_label)  # fmt: skip
+    notes = (found.note,) if found.note else ()
+    return (found.pixel_clock_hz, found.horizontal, found.vertical, default,
+            f"{found.source} ({found.name})", notes)  # fmt: skip
 
 
 def _from_edid(path: str, pick: int) -> tuple[Fraction, Axis, Axis, str, str, tuple[str, ...]]:
