@@ -3,17 +3,20 @@
 from __future__ import annotations
 
 import json
+import sys
 from pathlib import Path
 
 import click
 from rich.console import Console
 from rich.table import Table
 
-from synccore.cli._common import console, fail, load_spec
+from synccore.cli._common import FAILED, console, fail, load_spec
+from synccore.cli.edid import load_edid
 from synccore.model import Timing
 from synccore.model.report import figures, options, timing_table
 from synccore.spec import Spec
 from synccore.spec.schema import json_schema
+from synccore.timings.edid_accept import judge
 from synccore.timings.modeline import format_line
 
 
@@ -43,9 +46,14 @@ def print_summary(spec: Spec, console: Console) -> None:
               help="Print the timing as one X.Org modeline instead of the summary.")
 @click.option("--diagram", type=click.Path(dir_okay=False),
               help="Also draw the horizontal and vertical timing to scale into this .svg or .png.")
-def show(spec: str, as_modeline: bool, diagram: str | None) -> None:
+@click.option("--edid", "edid_file", type=click.Path(dir_okay=False), metavar="FILE",
+              help="Also judge the timing against a display's EDID; exit 1 if it would refuse.")
+def show(spec: str, as_modeline: bool, diagram: str | None, edid_file: str | None) -> None:
     """Validate SPEC and print its timing summary; writes nothing unless --diagram is given."""
     s = load_spec(spec)
+    verdict = None
+    if edid_file is not None:
+        verdict = judge(load_edid(edid_file), s.pixel_clock_hz, s.horizontal, s.vertical)
     if diagram is not None:
         from synccore.picture.diagram import draw
 
@@ -58,6 +66,12 @@ def show(spec: str, as_modeline: bool, diagram: str | None) -> None:
     print_summary(s, console(wide_pipe=True))
     if diagram is not None:
         console(wide_pipe=True).print(f"wrote {diagram}")
+    if verdict is not None:
+        click.echo(f"display ({edid_file}): {'accepts' if verdict.accepted else 'refuses'} "
+                   "this timing")  # fmt: skip
+        click.echo("".join(f"  {f}\n" for f in verdict.findings), nl=False)
+        if not verdict.accepted:
+            sys.exit(FAILED)
 
 
 @click.command()

@@ -114,3 +114,13 @@ def test_rom_files_load_in_ghdl_and_icarus(written: Path,
     run = subprocess.run([vvp, "rom.vvp"], cwd=written, check=True, capture_output=True,
                          text=True)  # fmt: skip
     assert run.stdout.split()[:3] == [str(data[0]), str(data[1]), str(sum(data))]
+
+
+def test_show_judges_against_the_edid(written: Path) -> None:
+    code, out, _ = invoke("show", str(written / "a.yaml"), "--edid", str(written / "sink.bin"))
+    assert code == 0
+    assert "display (" in out and "accepts this timing" in out
+    code, _, _ = invoke("new", "1920x1080@60 cta", "-o", str(written / "big.yaml"))
+    code, out, _ = invoke("show", str(written / "big.yaml"), "--edid", str(written / "sink.bin"))
+    assert code == 1
+    assert "refused: too fast for the display's maximum pixel clock" in out
