@@ -244,3 +244,22 @@ def test_random_hex_text_never_crashes(text: str) -> None:
         edid.read(text.encode())
     except edid.EdidError:
         pass
+
+
+@pytest.mark.parametrize(("block", "at", "value", "expected"), [
+    # section 3.10.3.3: range limits byte 4 bits 7-4 are reserved, 0
+    (0, 0x5A + 4, 0x10, "base block, descriptor 3: range limits: reserved bits of byte 4 are "
+                        "set (10h)"),
+    # section 3.10.3: a display descriptor's byte 2 is reserved, 00h
+    (0, 0x6C + 2, 0x01, "base block, descriptor 4: reserved bytes 2 or 4 of a display "
+                        "descriptor are not 00h"),
+    # section 3.4.1: bit 15 of the manufacturer ID is reserved, 0
+    (0, 0x08, 0x84, "manufacturer ID: reserved bit 15 of bytes 08h-09h is set"),
+    # CTA-861 section 7.5.1: short video descriptor code 0 is reserved
+    (1, 7, 0x00, "CTA block 1: reserved short video descriptor codes [0]"),
+])  # fmt: skip
+def test_reserved_bits_are_reported(block: int, at: int, value: int, expected: str) -> None:
+    blocks = [_base(1), _cta()]
+    blocks[block][at] = value
+    e = edid.decode(bytes(_checksummed(blocks[0]) + _checksummed(blocks[1])))
+    assert e.problems == (expected,)
