@@ -63,10 +63,14 @@ VCD_HINT = ("give the SPEC too (synccore view SPEC --vcd ...) to check that the 
 @board_options
 @click.option(ACCEPT_OPTION, "accept_clock_error", is_flag=True,
               help="With --board: simulate even when the planned clock is outside the tolerance.")
+@click.option("--edid", "edid_file", type=click.Path(dir_okay=False), metavar="FILE",
+              help="Accept or refuse the signal as the display whose EDID this is would: its "
+                   "listed timings, range limits and maximum pixel clock (needs SPEC).")
 def view_command(spec: str | None, engine: str, pattern: str, out_png: str | None,
                  monitor_range: str | None, vcd: str | None, mapping: str | None,
                  work_dir: str | None, link: str | None, whole_board: bool, board_clock: str | None,
-                 family: str | None, no_pll: bool, accept_clock_error: bool) -> None:  # fmt: skip
+                 family: str | None, no_pll: bool, accept_clock_error: bool,
+                 edid_file: str | None) -> None:  # fmt: skip
     """Simulate SPEC's first-light design and look at it as a monitor would: rates, mode, PNG.
 
     With ``--vcd`` the pins come from your own simulation; SPEC, when given too, is the
@@ -80,14 +84,10 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     s = None
     clock_notes: list[str] = []
     clock_problems: list[str] = []
-    if not whole_board and (board_clock or family or no_pll or accept_clock_error):
-        fail(f"--board-clock, --family, --no-pll and {ACCEPT_OPTION} need --board")
-    if link and (vcd or engine == "builtin"):
-        fail("--link dvi simulates the link core on icarus, ghdl, verilator or model (with --board, "
-             "the whole DVI top on icarus); drop --vcd and --sim builtin")  # fmt: skip
-    if whole_board and (vcd or engine != "icarus"):
-        fail("--board: the board top runs in Icarus only (the PLL models are Verilog); "
-             "drop --vcd and --sim")  # fmt: skip
+    _check_options(engine, vcd, link, whole_board, bool(board_clock or family or no_pll
+                                                        or accept_clock_error))  # fmt: skip
+    if edid_file is not None and spec is None:
+        fail("--edid needs a SPEC: the timing the display judges")
     if whole_board:
         if spec is None:
             raise click.UsageError("--board needs a SPEC")
@@ -119,9 +119,39 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
         check_pattern(mon, s, pattern)
     if s is None and mon.offset is not None and mon.offset != (0, 0):
         mon.notes.append(VCD_HINT)
+    if edid_file is not None and s is not None:
+        _judge_edid(mon, s, pins, edid_file)
     _show(mon, title, Path(out_png or f"{name}_view.png"), s, tmds=link is not None)
     if mon.problems:
         fail((f"PROBLEM {problem}" for problem in mon.problems), code=FAILED)
+
+
+def _check_options(engine: str, vcd: str | None, link: str | None, whole_board: bool,
+                   board_given: bool) -> None:  # fmt: skip
+    """One line and exit 2 for options that do not go together."""
+    if not whole_board and board_given:
+        fail(f"--board-clock, --family, --no-pll and {ACCEPT_OPTION} need --board")
+    if link and (vcd or engine == "builtin"):
+        fail("--link dvi simulates the link core on icarus, ghdl, verilator or model (with --board, "
+             "the whole DVI top on icarus); drop --vcd and --sim builtin")  # fmt: skip
+    if whole_board and (vcd or engine != "icarus"):
+        fail("--board: the board top runs in Icarus only (the PLL models are Verilog); "
+             "drop --vcd and --sim")  # fmt: skip
+
+
+def _judge_edid(mon: Monitor, s: Spec, pins: Pins, edid_file: str) -> None:
+    """The display of ``edid_file`` accepts (a note) or refuses (a problem) the signal: the
+    spec's raster at the pixel clock the pins were sampled on (measured with --board)."""
+    from fractions import Fraction
+
+    from synccore.cli.edid import load_edid
+    from synccore.timings.edid_accept import judge
+
+    clock = Fraction(round(1 / pins.period_s))
+    verdict = judge(load_edid(edid_file), clock, s.horizontal, s.vertical)
+    said = "accepts" if verdict.accepted else "refuses"
+    line = f"the display of {edid_file} {said} this signal: " + "; ".join(verdict.findings)
+    (mon.notes if verdict.accepted else mon.problems).append(line)
 
 
 def _monitor_range(text: str | None) -> tuple[tuple[float, float], tuple[float, float]] | None:
