@@ -11,6 +11,7 @@ from dataclasses import dataclass
 from pathlib import PurePath
 
 from synccore._version import __version__
+from synccore.emit.core.flags import Flag, position_flags
 from synccore.model import Timing, reset_port
 from synccore.model.report import figures, options, text_table, timing_table
 
@@ -64,6 +65,8 @@ class CoreContext:
     scale: int
     has_scale: bool
     ppc: int
+    flags: tuple[Flag, ...]  # the registered position flags (decide one cycle early)
+    flag: dict[str, str]  # role -> flag register (roles at one position share a register)
 
     # Most significant bit indices, so templates never compute.
     @property
@@ -124,6 +127,12 @@ def _constants(t: Timing) -> tuple[Constant, ...]:
                  f"vsync level during the pulse ({spec.vertical.sync_polarity})", True),
         Constant("V_SYNC_OFF", t.vsync_inactive_level, 1, "vsync level outside the pulse", True),
     ]  # fmt: skip
+    flags, _, marks = position_flags(t)
+    consts += [
+        Constant(f.before, f.before_value, hw if f.axis == "h" else vw,
+                 f"{f.name} is 1 after the advance from here ({marks[f.name]})")
+        for f in flags if f.before
+    ]  # fmt: skip
     return tuple(consts)
 
 
@@ -172,6 +181,7 @@ def build_context(t: Timing) -> CoreContext:
     core = spec.core
     ports = _ports(t)
     reset = reset_port(core.reset)
+    flags, flag, _ = position_flags(t)
     return CoreContext(
         name=spec.name,
         header=tuple(header_lines(t)),
@@ -197,6 +207,8 @@ def build_context(t: Timing) -> CoreContext:
         scale=core.scale,
         has_scale=core.scale > 1,
         ppc=t.ppc,
+        flags=flags,
+        flag=flag,
     )
 
 
