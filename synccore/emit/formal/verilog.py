@@ -47,4 +47,8 @@ def _view(ctx: FormalContext) -> dict[str, object]:
         "y_zero": uint(0, ctx.y_msb + 1),
         "x_from": "ref_hl" if ctx.has_lead else "ref_h",
         "y_from": "ref_vl" if ctx.has_lead else "ref_v",
+        "flag_checks": [
+            f"core_{f.name} == (ref_{f.axis}_to == {uint(f.at, (ctx.h_msb if f.axis == 'h' else ctx.v_msb) + 1)})"
+            for f in ctx.flags
+        ],
     }
