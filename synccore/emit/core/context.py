@@ -26,6 +26,7 @@ class Constant:
     width: int  # bits; 1 for a single-bit level
     comment: str
     is_level: bool = False  # a single std_logic / 1-bit value rather than a count
+    in_verilog: bool = True  # False: the Verilog core does not read it (lint: unused parameter)
 
 
 @dataclass(frozen=True)
@@ -100,20 +101,16 @@ def _constants(t: Timing) -> tuple[Constant, ...]:
     core = spec.core
     hw, vw = t.h_width, t.v_width
     lead_h, lead_v = t.lead_reset
+    # Sync edges are not constants of their own: the position flags below compare
+    # against the cycle before each edge.  Verilog reads the active sizes and H_LAST
+    # only for the lead counter; VHDL's counter ranges read H_LAST and V_LAST.
+    lead = core.lead > 0
     consts = [
-        Constant("H_ACTIVE", t.h_active, hw, "active cycles per line"),
-        Constant("H_SYNC_START", t.h_sync_start, hw, "first cycle of the hsync pulse"),
-        Constant("H_SYNC_END", t.h_sync_end, hw, "first cycle after the hsync pulse"),
-        Constant("H_LAST", t.h_last, hw, "last cycle of a line"),
-        Constant("V_ACTIVE", t.v_active, vw, "active lines per frame"),
-        Constant("V_SYNC_START", t.v_sync_start, vw, "first line of the vsync pulse"),
-        Constant("V_SYNC_END", t.v_sync_end, vw, "first line after the vsync pulse"),
+        Constant("H_ACTIVE", t.h_active, hw, "active cycles per line", in_verilog=lead),
+        Constant("H_LAST", t.h_last, hw, "last cycle of a line", in_verilog=lead),
+        Constant("V_ACTIVE", t.v_active, vw, "active lines per frame", in_verilog=lead),
         Constant("V_LAST", t.v_last, vw, "last line of a frame"),
-        Constant("V_SYNC_AT_H", t.v_sync_at_h, hw,
-                 "cycle of the line at which vsync changes"
-                 + (" (the hsync leading edge)" if core.vsync_align == "hsync"
-                    else " (the line start)")),
-    ]  # fmt: skip
+    ]
     if core.lead:
         consts += [
             Constant("H_LEAD_RESET", lead_h, hw, f"column (cycles) {core.lead} cycles ahead"),

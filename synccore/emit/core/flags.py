@@ -36,7 +36,8 @@ def _roles(t: Timing) -> tuple[tuple[str, str, int, str], ...]:
         ("h_at_active_end", "h", t.h_active % t.h_total, "the first blanking cycle"),
         ("h_at_sync_start", "h", t.h_sync_start, "the first cycle of the hsync pulse"),
         ("h_at_sync_end", "h", t.h_sync_end, "the first cycle after the hsync pulse"),
-        ("h_at_vsync", "h", t.v_sync_at_h, "the cycle at which vsync changes"),
+        ("h_at_vsync", "h", t.v_sync_at_h, "the cycle at which vsync changes, "
+         + ("the hsync leading edge" if t.spec.core.vsync_align == "hsync" else "the line start")),
         ("v_at_zero", "v", 0, "the first line of a frame"),
         ("v_at_active_end", "v", t.v_active % t.v_total, "the first blanking line"),
         ("v_at_sync_start", "v", t.v_sync_start, "the first line of the vsync pulse"),
