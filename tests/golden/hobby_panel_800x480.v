@@ -39,21 +39,24 @@ module hobby_panel (
     // ------------------------------------------------------------------
     // Timing constants, in clock cycles (horizontal) and lines (vertical)
     // ------------------------------------------------------------------
-    localparam [9:0]   H_ACTIVE     = 10'd800;  // active cycles per line
-    localparam [9:0]   H_SYNC_START = 10'd840;  // first cycle of the hsync pulse
-    localparam [9:0]   H_SYNC_END   = 10'd888;  // first cycle after the hsync pulse
-    localparam [9:0]   H_LAST       = 10'd927;  // last cycle of a line
-    localparam [9:0]   V_ACTIVE     = 10'd480;  // active lines per frame
-    localparam [9:0]   V_SYNC_START = 10'd493;  // first line of the vsync pulse
-    localparam [9:0]   V_SYNC_END   = 10'd496;  // first line after the vsync pulse
-    localparam [9:0]   V_LAST       = 10'd524;  // last line of a frame
-    localparam [9:0]   V_SYNC_AT_H  = 10'd840;  // cycle of the line at which vsync changes (the hsync leading edge)
-    localparam [9:0]   H_LEAD_RESET = 10'd1;    // column (cycles) 1 cycles ahead
-    localparam [9:0]   V_LEAD_RESET = 10'd0;    // line 1 cycles ahead
-    localparam         H_SYNC_ON    = 1'b0;     // hsync level during the pulse (negative)
-    localparam         H_SYNC_OFF   = 1'b1;     // hsync level outside the pulse
-    localparam         V_SYNC_ON    = 1'b0;     // vsync level during the pulse (negative)
-    localparam         V_SYNC_OFF   = 1'b1;     // vsync level outside the pulse
+    localparam [9:0]   H_ACTIVE             = 10'd800;  // active cycles per line
+    localparam [9:0]   H_LAST               = 10'd927;  // last cycle of a line
+    localparam [9:0]   V_ACTIVE             = 10'd480;  // active lines per frame
+    localparam [9:0]   V_LAST               = 10'd524;  // last line of a frame
+    localparam [9:0]   H_LEAD_RESET         = 10'd1;    // column (cycles) 1 cycles ahead
+    localparam [9:0]   V_LEAD_RESET         = 10'd0;    // line 1 cycles ahead
+    localparam         H_SYNC_ON            = 1'b0;     // hsync level during the pulse (negative)
+    localparam         H_SYNC_OFF           = 1'b1;     // hsync level outside the pulse
+    localparam         V_SYNC_ON            = 1'b0;     // vsync level during the pulse (negative)
+    localparam         V_SYNC_OFF           = 1'b1;     // vsync level outside the pulse
+    localparam [9:0]   H_AT_LAST_FROM       = 10'd926;  // h_at_last is 1 after the advance from here (the last cycle of a line)
+    localparam [9:0]   H_AT_ACTIVE_END_FROM = 10'd799;  // h_at_active_end is 1 after the advance from here (the first blanking cycle)
+    localparam [9:0]   H_AT_SYNC_START_FROM = 10'd839;  // h_at_sync_start is 1 after the advance from here (the first cycle of the hsync pulse)
+    localparam [9:0]   H_AT_SYNC_END_FROM   = 10'd887;  // h_at_sync_end is 1 after the advance from here (the first cycle after the hsync pulse)
+    localparam [9:0]   V_AT_ZERO_FROM       = 10'd524;  // v_at_zero is 1 after the advance from here (the first line of a frame)
+    localparam [9:0]   V_AT_ACTIVE_END_FROM = 10'd479;  // v_at_active_end is 1 after the advance from here (the first blanking line)
+    localparam [9:0]   V_AT_SYNC_START_FROM = 10'd492;  // v_at_sync_start is 1 after the advance from here (the first line of the vsync pulse)
+    localparam [9:0]   V_AT_SYNC_END_FROM   = 10'd495;  // v_at_sync_end is 1 after the advance from here (the first line after the vsync pulse)
 
     // ------------------------------------------------------------------
     // Position counters
@@ -66,12 +69,39 @@ module hobby_panel (
     reg [9:0] h_lead;
     reg [9:0] v_lead;
 
+    // ------------------------------------------------------------------
+    // Position flags: 1 while the counter stands at one position, loaded
+    // on the advance before, so outputs are decided one cycle early.
+    // ------------------------------------------------------------------
+    reg h_at_last;
+    reg h_at_zero;
+    reg h_at_active_end;
+    reg h_at_sync_start;
+    reg h_at_sync_end;
+    reg v_at_zero;
+    reg v_at_active_end;
+    reg v_at_sync_start;
+    reg v_at_sync_end;
+
+    // The outputs' next values, from flags and the outputs themselves.
+    wire hblank_next = h_at_zero ? 1'b0 : h_at_active_end ? 1'b1 : hblank;
+    wire vblank_next = !h_at_zero ? vblank : v_at_zero ? 1'b0 : v_at_active_end ? 1'b1 : vblank;
+
     always @(posedge clk) begin
         if (!rst_n) begin
             h_pos <= 10'd0;
             v_pos <= 10'd0;
             h_lead <= H_LEAD_RESET;
             v_lead <= V_LEAD_RESET;
+            h_at_last <= 1'b0;
+            h_at_zero <= 1'b1;
+            h_at_active_end <= 1'b0;
+            h_at_sync_start <= 1'b0;
+            h_at_sync_end <= 1'b0;
+            v_at_zero <= 1'b1;
+            v_at_active_end <= 1'b0;
+            v_at_sync_start <= 1'b0;
+            v_at_sync_end <= 1'b0;
             hsync <= H_SYNC_OFF;
             vsync <= V_SYNC_OFF;
             de <= 1'b0;
@@ -83,7 +113,7 @@ module hobby_panel (
             frame_start <= 1'b0;
         end else begin
             // ---- step the position -------------------------------------
-            if (h_pos == H_LAST) begin
+            if (h_at_last) begin
                 h_pos <= 10'd0;
                 if (v_pos == V_LAST)
                     v_pos <= 10'd0;
@@ -102,22 +132,35 @@ module hobby_panel (
                 h_lead <= h_lead + 1'b1;
             end
 
+            // ---- step the flags with the position ----------------------
+            h_at_last <= (h_pos == H_AT_LAST_FROM);
+            h_at_zero <= h_at_last;
+            h_at_active_end <= (h_pos == H_AT_ACTIVE_END_FROM);
+            h_at_sync_start <= (h_pos == H_AT_SYNC_START_FROM);
+            h_at_sync_end <= (h_pos == H_AT_SYNC_END_FROM);
+            if (h_at_last) begin
+                v_at_zero <= (v_pos == V_AT_ZERO_FROM);
+                v_at_active_end <= (v_pos == V_AT_ACTIVE_END_FROM);
+                v_at_sync_start <= (v_pos == V_AT_SYNC_START_FROM);
+                v_at_sync_end <= (v_pos == V_AT_SYNC_END_FROM);
+            end
+
             // ---- register the outputs of the current position ----------
-            de <= (h_pos < H_ACTIVE) && (v_pos < V_ACTIVE);
-            hblank <= (h_pos >= H_ACTIVE);
-            vblank <= (v_pos >= V_ACTIVE);
-            line_start <= (h_pos == 10'd0) && (v_pos < V_ACTIVE);
-            frame_start <= (h_pos == 10'd0) && (v_pos == 10'd0);
+            de <= !hblank_next && !vblank_next;
+            hblank <= hblank_next;
+            vblank <= vblank_next;
+            line_start <= h_at_zero && !vblank_next;
+            frame_start <= h_at_zero && v_at_zero;
 
             // Syncs change only at their edges, so a pulse is never cut short.
-            if (h_pos == H_SYNC_START)
+            if (h_at_sync_start)
                 hsync <= H_SYNC_ON;
-            else if (h_pos == H_SYNC_END)
+            else if (h_at_sync_end)
                 hsync <= H_SYNC_OFF;
-            if (h_pos == V_SYNC_AT_H) begin
-                if (v_pos == V_SYNC_START)
+            if (h_at_sync_start) begin
+                if (v_at_sync_start)
                     vsync <= V_SYNC_ON;
-                else if (v_pos == V_SYNC_END)
+                else if (v_at_sync_end)
                     vsync <= V_SYNC_OFF;
             end
 

@@ -48,20 +48,23 @@ architecture rtl of hdmi_1080p5994 is
     -- ------------------------------------------------------------------
     -- Timing constants, in clock cycles (horizontal) and lines (vertical)
     -- ------------------------------------------------------------------
-    constant H_ACTIVE         : natural   := 960;   -- active cycles per line
-    constant H_SYNC_START     : natural   := 1004;  -- first cycle of the hsync pulse
-    constant H_SYNC_END       : natural   := 1026;  -- first cycle after the hsync pulse
-    constant H_LAST           : natural   := 1099;  -- last cycle of a line
-    constant V_ACTIVE         : natural   := 1080;  -- active lines per frame
-    constant V_SYNC_START     : natural   := 1084;  -- first line of the vsync pulse
-    constant V_SYNC_END       : natural   := 1089;  -- first line after the vsync pulse
-    constant V_LAST           : natural   := 1124;  -- last line of a frame
-    constant V_SYNC_AT_H      : natural   := 1004;  -- cycle of the line at which vsync changes (the hsync leading edge)
-    constant H_SYNC_ON        : std_logic := '1';   -- hsync level during the pulse (positive)
-    constant H_SYNC_OFF       : std_logic := '0';   -- hsync level outside the pulse
-    constant V_SYNC_ON        : std_logic := '1';   -- vsync level during the pulse (positive)
-    constant V_SYNC_OFF       : std_logic := '0';   -- vsync level outside the pulse
-    constant PIXELS_PER_CLOCK : natural   := 2;     -- pixels carried by each cycle
+    constant H_ACTIVE             : natural   := 960;   -- active cycles per line
+    constant H_LAST               : natural   := 1099;  -- last cycle of a line
+    constant V_ACTIVE             : natural   := 1080;  -- active lines per frame
+    constant V_LAST               : natural   := 1124;  -- last line of a frame
+    constant H_SYNC_ON            : std_logic := '1';   -- hsync level during the pulse (positive)
+    constant H_SYNC_OFF           : std_logic := '0';   -- hsync level outside the pulse
+    constant V_SYNC_ON            : std_logic := '1';   -- vsync level during the pulse (positive)
+    constant V_SYNC_OFF           : std_logic := '0';   -- vsync level outside the pulse
+    constant H_AT_LAST_FROM       : natural   := 1098;  -- h_at_last is 1 after the advance from here (the last cycle of a line)
+    constant H_AT_ACTIVE_END_FROM : natural   := 959;   -- h_at_active_end is 1 after the advance from here (the first blanking cycle)
+    constant H_AT_SYNC_START_FROM : natural   := 1003;  -- h_at_sync_start is 1 after the advance from here (the first cycle of the hsync pulse)
+    constant H_AT_SYNC_END_FROM   : natural   := 1025;  -- h_at_sync_end is 1 after the advance from here (the first cycle after the hsync pulse)
+    constant V_AT_ZERO_FROM       : natural   := 1124;  -- v_at_zero is 1 after the advance from here (the first line of a frame)
+    constant V_AT_ACTIVE_END_FROM : natural   := 1079;  -- v_at_active_end is 1 after the advance from here (the first blanking line)
+    constant V_AT_SYNC_START_FROM : natural   := 1083;  -- v_at_sync_start is 1 after the advance from here (the first line of the vsync pulse)
+    constant V_AT_SYNC_END_FROM   : natural   := 1088;  -- v_at_sync_end is 1 after the advance from here (the first line after the vsync pulse)
+    constant PIXELS_PER_CLOCK     : natural   := 2;     -- pixels carried by each cycle
 
     -- ------------------------------------------------------------------
     -- Position counters
@@ -77,7 +80,29 @@ architecture rtl of hdmi_1080p5994 is
     signal x_q : std_logic_vector(10 downto 0);
     signal y_q : std_logic_vector(10 downto 0);
 
+    -- Position flags: '1' while the counter stands at one position, loaded
+    -- on the advance before, so outputs are decided one cycle early.
+    signal h_at_last : std_logic;
+    signal h_at_zero : std_logic;
+    signal h_at_active_end : std_logic;
+    signal h_at_sync_start : std_logic;
+    signal h_at_sync_end : std_logic;
+    signal v_at_zero : std_logic;
+    signal v_at_active_end : std_logic;
+    signal v_at_sync_start : std_logic;
+    signal v_at_sync_end : std_logic;
+    -- The outputs' next values, from flags and the outputs themselves.
+    signal hblank_next, vblank_next : std_logic;
+
 begin
+
+    hblank_next <= '0' when h_at_zero = '1' else
+                   '1' when h_at_active_end = '1' else
+                   hblank_q;
+    vblank_next <= vblank_q when h_at_zero = '0' else
+                   '0' when v_at_zero = '1' else
+                   '1' when v_at_active_end = '1' else
+                   vblank_q;
 
     timing : process (clk)
     begin
@@ -94,9 +119,18 @@ begin
                 y_q <= (others => '0');
                 line_start_q <= '0';
                 frame_start_q <= '0';
+                h_at_last <= '0';
+                h_at_zero <= '1';
+                h_at_active_end <= '0';
+                h_at_sync_start <= '0';
+                h_at_sync_end <= '0';
+                v_at_zero <= '1';
+                v_at_active_end <= '0';
+                v_at_sync_start <= '0';
+                v_at_sync_end <= '0';
             else
                 -- ---- step the position -------------------------------------
-                if h_pos = H_LAST then
+                if h_at_last = '1' then
                     h_pos <= 0;
                     if v_pos = V_LAST then
                         v_pos <= 0;
@@ -107,54 +141,79 @@ begin
                     h_pos <= h_pos + 1;
                 end if;
 
-                -- ---- register the outputs of the current position ----------
-                if h_pos < H_ACTIVE and v_pos < V_ACTIVE then
-                    de_q <= '1';
+                -- ---- step the flags with the position ----------------------
+                if h_pos = H_AT_LAST_FROM then
+                    h_at_last <= '1';
                 else
-                    de_q <= '0';
+                    h_at_last <= '0';
                 end if;
-                if h_pos < H_ACTIVE then
-                    hblank_q <= '0';
+                h_at_zero <= h_at_last;
+                if h_pos = H_AT_ACTIVE_END_FROM then
+                    h_at_active_end <= '1';
                 else
-                    hblank_q <= '1';
+                    h_at_active_end <= '0';
                 end if;
-                if v_pos < V_ACTIVE then
-                    vblank_q <= '0';
+                if h_pos = H_AT_SYNC_START_FROM then
+                    h_at_sync_start <= '1';
                 else
-                    vblank_q <= '1';
+                    h_at_sync_start <= '0';
                 end if;
-                if h_pos = 0 and v_pos < V_ACTIVE then
-                    line_start_q <= '1';
+                if h_pos = H_AT_SYNC_END_FROM then
+                    h_at_sync_end <= '1';
                 else
-                    line_start_q <= '0';
+                    h_at_sync_end <= '0';
                 end if;
-                if h_pos = 0 and v_pos = 0 then
-                    frame_start_q <= '1';
-                else
-                    frame_start_q <= '0';
+                if h_at_last = '1' then
+                    if v_pos = V_AT_ZERO_FROM then
+                        v_at_zero <= '1';
+                    else
+                        v_at_zero <= '0';
+                    end if;
+                    if v_pos = V_AT_ACTIVE_END_FROM then
+                        v_at_active_end <= '1';
+                    else
+                        v_at_active_end <= '0';
+                    end if;
+                    if v_pos = V_AT_SYNC_START_FROM then
+                        v_at_sync_start <= '1';
+                    else
+                        v_at_sync_start <= '0';
+                    end if;
+                    if v_pos = V_AT_SYNC_END_FROM then
+                        v_at_sync_end <= '1';
+                    else
+                        v_at_sync_end <= '0';
+                    end if;
                 end if;
 
+                -- ---- register the outputs of the current position ----------
+                de_q <= not hblank_next and not vblank_next;
+                hblank_q <= hblank_next;
+                vblank_q <= vblank_next;
+                line_start_q <= h_at_zero and not vblank_next;
+                frame_start_q <= h_at_zero and v_at_zero;
+
                 -- Syncs change only at their edges, so a pulse is never cut short.
-                if h_pos = H_SYNC_START then
+                if h_at_sync_start = '1' then
                     hsync_q <= H_SYNC_ON;
-                elsif h_pos = H_SYNC_END then
+                elsif h_at_sync_end = '1' then
                     hsync_q <= H_SYNC_OFF;
                 end if;
-                if h_pos = V_SYNC_AT_H then
-                    if v_pos = V_SYNC_START then
+                if h_at_sync_start = '1' then
+                    if v_at_sync_start = '1' then
                         vsync_q <= V_SYNC_ON;
-                    elsif v_pos = V_SYNC_END then
+                    elsif v_at_sync_end = '1' then
                         vsync_q <= V_SYNC_OFF;
                     end if;
                 end if;
 
                 -- Coordinates: the column/row while active, 0 in blanking.
-                if h_pos < H_ACTIVE then
+                if hblank_next = '0' then
                     x_q <= std_logic_vector(to_unsigned(h_pos * PIXELS_PER_CLOCK, x_q'length));
                 else
                     x_q <= (others => '0');
                 end if;
-                if v_pos < V_ACTIVE then
+                if vblank_next = '0' then
                     y_q <= std_logic_vector(to_unsigned(v_pos, y_q'length));
                 else
                     y_q <= (others => '0');

@@ -76,12 +76,12 @@ def test_examples_measure_right(example: Path, simulator: str, tmp_path: Path,
 MUTANTS = {
     # front porch one cycle shorter: the hsync pulse starts a cycle early
     "front porch off by one": (
-        lambda v: v.replace("H_SYNC_START = 6'd36;", "H_SYNC_START = 6'd35;"),
+        lambda v: v.replace("H_AT_SYNC_START_FROM = 6'd35;", "H_AT_SYNC_START_FROM = 6'd34;"),
         ["h front porch", "hsync width"],
     ),
     "inverted hsync polarity": (
-        lambda v: v.replace("H_SYNC_ON    = 1'b0;", "H_SYNC_ON    = 1'b1;")
-                   .replace("H_SYNC_OFF   = 1'b1;", "H_SYNC_OFF   = 1'b0;"),
+        lambda v: re.sub(r"(H_SYNC_OFF\s*= )1'b1;", r"\g<1>1'b0;",
+                         re.sub(r"(H_SYNC_ON\s*= )1'b0;", r"\g<1>1'b1;", v)),
         ["hsync polarity"],
     ),
     "x off by one": (
@@ -89,17 +89,17 @@ MUTANTS = {
         ["x range"],
     ),
     "de one cycle late": (
-        lambda v: v.replace("de <= (h_pos < H_ACTIVE) && (v_pos < V_ACTIVE);",
-                            "de <= (h_pos >= 6'd1) && (h_pos <= H_ACTIVE) && (v_pos < V_ACTIVE);"),
+        lambda v: v.replace("de <= !hblank_next && !vblank_next;",
+                            "de <= !hblank && !vblank_next;"),
         ["first de after reset", "de = not (hblank or vblank)", "x range"],
     ),
     "line_start missing": (
-        lambda v: v.replace("line_start <= (h_pos == 6'd0) && (v_pos < V_ACTIVE);",
+        lambda v: v.replace("line_start <= h_at_zero && !vblank_next;",
                             "line_start <= 1'b0;"),
         ["line_start per frame", "line_start with de rise"],
     ),
     "frame_start missing": (
-        lambda v: v.replace("frame_start <= (h_pos == 6'd0) && (v_pos == 4'd0);",
+        lambda v: v.replace("frame_start <= h_at_zero && v_at_zero;",
                             "frame_start <= 1'b0;"),
         ["frame_start per frame"],
     ),

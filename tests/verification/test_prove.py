@@ -91,9 +91,9 @@ def test_mutants_fail_with_a_counterexample(mutant: str, ports_only: bool, tmp_p
 
 
 def _edited(spec: synccore.Spec) -> str:
-    """The generated core with its hsync pulse one cycle longer (H_SYNC_END + 1)."""
+    """The generated core with its hsync pulse ending on the line's last cycle (longer)."""
     text = synccore.render_verilog(spec)
-    out = re.sub(r"(H_SYNC_END\s*= \d+'d)(\d+)", lambda m: f"{m[1]}{int(m[2]) + 1}", text, count=1)
+    out = text.replace("else if (h_at_sync_end)", "else if (h_at_last)", 1)
     assert out != text
     return out
 

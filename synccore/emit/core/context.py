@@ -11,6 +11,7 @@ from dataclasses import dataclass
 from pathlib import PurePath
 
 from synccore._version import __version__
+from synccore.emit.core.flags import Flag, position_flags
 from synccore.model import Timing, reset_port
 from synccore.model.report import figures, options, text_table, timing_table
 
@@ -25,6 +26,7 @@ class Constant:
     width: int  # bits; 1 for a single-bit level
     comment: str
     is_level: bool = False  # a single std_logic / 1-bit value rather than a count
+    in_verilog: bool = True  # False: the Verilog core does not read it (lint: unused parameter)
 
 
 @dataclass(frozen=True)
@@ -64,6 +66,8 @@ class CoreContext:
     scale: int
     has_scale: bool
     ppc: int
+    flags: tuple[Flag, ...]  # the registered position flags (decide one cycle early)
+    flag: dict[str, str]  # role -> flag register (roles at one position share a register)
 
     # Most significant bit indices, so templates never compute.
     @property
@@ -97,20 +101,16 @@ def _constants(t: Timing) -> tuple[Constant, ...]:
     core = spec.core
     hw, vw = t.h_width, t.v_width
     lead_h, lead_v = t.lead_reset
+    # Sync edges are not constants of their own: the position flags below compare
+    # against the cycle before each edge.  Verilog reads the active sizes and H_LAST
+    # only for the lead counter; VHDL's counter ranges read H_LAST and V_LAST.
+    lead = core.lead > 0
     consts = [
-        Constant("H_ACTIVE", t.h_active, hw, "active cycles per line"),
-        Constant("H_SYNC_START", t.h_sync_start, hw, "first cycle of the hsync pulse"),
-        Constant("H_SYNC_END", t.h_sync_end, hw, "first cycle after the hsync pulse"),
-        Constant("H_LAST", t.h_last, hw, "last cycle of a line"),
-        Constant("V_ACTIVE", t.v_active, vw, "active lines per frame"),
-        Constant("V_SYNC_START", t.v_sync_start, vw, "first line of the vsync pulse"),
-        Constant("V_SYNC_END", t.v_sync_end, vw, "first line after the vsync pulse"),
+        Constant("H_ACTIVE", t.h_active, hw, "active cycles per line", in_verilog=lead),
+        Constant("H_LAST", t.h_last, hw, "last cycle of a line", in_verilog=lead),
+        Constant("V_ACTIVE", t.v_active, vw, "active lines per frame", in_verilog=lead),
         Constant("V_LAST", t.v_last, vw, "last line of a frame"),
-        Constant("V_SYNC_AT_H", t.v_sync_at_h, hw,
-                 "cycle of the line at which vsync changes"
-                 + (" (the hsync leading edge)" if core.vsync_align == "hsync"
-                    else " (the line start)")),
-    ]  # fmt: skip
+    ]
     if core.lead:
         consts += [
             Constant("H_LEAD_RESET", lead_h, hw, f"column (cycles) {core.lead} cycles ahead"),
@@ -123,6 +123,12 @@ def _constants(t: Timing) -> tuple[Constant, ...]:
         Constant("V_SYNC_ON", t.vsync_active_level, 1,
                  f"vsync level during the pulse ({spec.vertical.sync_polarity})", True),
         Constant("V_SYNC_OFF", t.vsync_inactive_level, 1, "vsync level outside the pulse", True),
+    ]  # fmt: skip
+    flags, _, marks = position_flags(t)
+    consts += [
+        Constant(f.before, f.before_value, hw if f.axis == "h" else vw,
+                 f"{f.name} is 1 after the advance from here ({marks[f.name]})")
+        for f in flags if f.before
     ]  # fmt: skip
     return tuple(consts)
 
@@ -172,6 +178,7 @@ def build_context(t: Timing) -> CoreContext:
     core = spec.core
     ports = _ports(t)
     reset = reset_port(core.reset)
+    flags, flag, _ = position_flags(t)
     return CoreContext(
         name=spec.name,
         header=tuple(header_lines(t)),
@@ -197,6 +204,8 @@ def build_context(t: Timing) -> CoreContext:
         scale=core.scale,
         has_scale=core.scale > 1,
         ppc=t.ppc,
+        flags=flags,
+        flag=flag,
     )
 
 

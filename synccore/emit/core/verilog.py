@@ -19,9 +19,10 @@ def _verilog_view(ctx: CoreContext) -> dict[str, object]:
     reset = ctx.reset_port
     edge = "negedge" if ctx.reset_active_low else "posedge"
     sensitivity = f"posedge {ctx.port['clk']}" + (f" or {edge} {reset}" if ctx.reset_async else "")
-    name_w = max(len(c.name) for c in ctx.constants)
+    used = [c for c in ctx.constants if c.in_verilog]
+    name_w = max(len(c.name) for c in used)
     consts = []
-    for c in ctx.constants:
+    for c in used:
         rng = "" if c.is_level else vector(c.width)
         lit = f"1'b{c.value}" if c.is_level else uint(c.value, c.width)
         decl = f"localparam {rng.ljust(7)} {c.name.ljust(name_w)} = {lit};"

@@ -18,6 +18,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from synccore.emit.core.context import GENERATED_MARK, build_context
+from synccore.emit.core.flags import Flag
 from synccore.model import Timing, bits_for
 
 PROPERTY_NAMES: dict[str, str] = {
@@ -34,6 +35,7 @@ PROPERTY_NAMES: dict[str, str] = {
     "ref_in_range": "reference counter in range (invariant)",
     "core_position": "core position counters follow the reference (invariant)",
     "core_lead": "core lead counters follow the reference (invariant)",
+    "core_flags": "core position flags match the reference counter (invariant)",
 }
 """Label of each assertion in the wrapper -> the property it checks, as reports name it."""
 
@@ -70,6 +72,7 @@ class FormalContext:
     y_msb: int
     x_full_msb: int  # a column in pixels, before the scale: the lead column times pixels_per_clock
     labels: tuple[str, ...]
+    flags: tuple[Flag, ...]  # the core's position flags (each: 1 while its counter is at ``at``)
 
     @property
     def internal_wires(self) -> tuple[tuple[str, str, int], ...]:
@@ -79,6 +82,7 @@ class FormalContext:
         wires = [("core_h_pos", "h_pos", self.h_msb), ("core_v_pos", "v_pos", self.v_msb)]
         if self.has_lead:
             wires += [("core_h_lead", "h_lead", self.h_msb), ("core_v_lead", "v_lead", self.v_msb)]
+        wires += [(f"core_{f.name}", f.name, 0) for f in self.flags]
         return tuple(wires)
 
 
@@ -122,6 +126,7 @@ def build_formal_context(t: Timing, *, internals: bool) -> FormalContext:
         labels.append("core_position")
         if core.has_lead:
             labels.append("core_lead")
+        labels.append("core_flags")
     return FormalContext(
         name=f"{core.name}_props",
         core_name=core.name,
@@ -144,4 +149,5 @@ def build_formal_context(t: Timing, *, internals: bool) -> FormalContext:
         y_msb=t.y_width - 1,
         x_full_msb=t.h_width + t.ppc.bit_length() - 2,
         labels=tuple(labels),
+        flags=core.flags if internals else (),
     )

@@ -36,6 +36,7 @@ def _view(ctx: FormalContext) -> dict[str, object]:
         rng = "" if c.level else f"[{c.width - 1}:0]"
         lit = f"1'b{c.value}" if c.level else uint(c.value, c.width)
         constants.append(f"localparam {rng.ljust(7)} {c.name.ljust(name_w)} = {lit};  // {c.comment}")
+    widths = {"h": ctx.h_msb + 1, "v": ctx.v_msb + 1}
     return {
         "header": comment_lines(ctx.header),
         "ports": ports,
@@ -47,4 +48,6 @@ def _view(ctx: FormalContext) -> dict[str, object]:
         "y_zero": uint(0, ctx.y_msb + 1),
         "x_from": "ref_hl" if ctx.has_lead else "ref_h",
         "y_from": "ref_vl" if ctx.has_lead else "ref_v",
+        "flag_checks": [f"core_{f.name} == (ref_{f.axis}_to == {uint(f.at, widths[f.axis])})"
+                        for f in ctx.flags],
     }

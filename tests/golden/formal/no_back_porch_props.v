@@ -55,6 +55,13 @@ module no_back_porch_props (
     // The core's own counters, connected by the proof script (connect -set).
     wire [4:0] core_h_pos;  // dut.h_pos
     wire [2:0] core_v_pos;  // dut.v_pos
+    wire [0:0] core_h_at_last;  // dut.h_at_last
+    wire [0:0] core_h_at_zero;  // dut.h_at_zero
+    wire [0:0] core_h_at_active_end;  // dut.h_at_active_end
+    wire [0:0] core_h_at_sync_start;  // dut.h_at_sync_start
+    wire [0:0] core_v_at_zero;  // dut.v_at_zero
+    wire [0:0] core_v_at_active_end;  // dut.v_at_active_end
+    wire [0:0] core_v_at_sync_start;  // dut.v_at_sync_start
 
     // ------------------------------------------------------------------
     // Reset and clock enable: free inputs, reset in the first cycle
@@ -149,6 +156,13 @@ module no_back_porch_props (
             end
             ref_in_range: assert (ref_h <= REF_H_LAST && ref_v <= REF_V_LAST);
             core_position: assert (core_h_pos == ref_h_to && core_v_pos == ref_v_to);
+            core_flags: assert (core_h_at_last == (ref_h_to == 5'd16)
+                               && core_h_at_zero == (ref_h_to == 5'd0)
+                               && core_h_at_active_end == (ref_h_to == 5'd12)
+                               && core_h_at_sync_start == (ref_h_to == 5'd14)
+                               && core_v_at_zero == (ref_v_to == 3'd0)
+                               && core_v_at_active_end == (ref_v_to == 3'd5)
+                               && core_v_at_sync_start == (ref_v_to == 3'd6));
         end
     end
 

@@ -59,6 +59,15 @@ module small_opts_props (
     wire [3:0] core_v_pos;  // dut.v_pos
     wire [2:0] core_h_lead;  // dut.h_lead
     wire [3:0] core_v_lead;  // dut.v_lead
+    wire [0:0] core_h_at_last;  // dut.h_at_last
+    wire [0:0] core_h_at_zero;  // dut.h_at_zero
+    wire [0:0] core_h_at_active_end;  // dut.h_at_active_end
+    wire [0:0] core_h_at_sync_start;  // dut.h_at_sync_start
+    wire [0:0] core_h_at_sync_end;  // dut.h_at_sync_end
+    wire [0:0] core_v_at_zero;  // dut.v_at_zero
+    wire [0:0] core_v_at_active_end;  // dut.v_at_active_end
+    wire [0:0] core_v_at_sync_start;  // dut.v_at_sync_start
+    wire [0:0] core_v_at_sync_end;  // dut.v_at_sync_end
 
     // ------------------------------------------------------------------
     // Reset and clock enable: free inputs, reset in the first cycle
@@ -160,6 +169,15 @@ module small_opts_props (
                                   && ref_hl <= REF_H_LAST && ref_vl <= REF_V_LAST);
             core_position: assert (core_h_pos == ref_h_to && core_v_pos == ref_v_to);
             core_lead: assert (core_h_lead == ref_hl_to && core_v_lead == ref_vl_to);
+            core_flags: assert (core_h_at_last == (ref_h_to == 3'd7)
+                               && core_h_at_zero == (ref_h_to == 3'd0)
+                               && core_h_at_active_end == (ref_h_to == 3'd4)
+                               && core_h_at_sync_start == (ref_h_to == 3'd5)
+                               && core_h_at_sync_end == (ref_h_to == 3'd6)
+                               && core_v_at_zero == (ref_v_to == 4'd0)
+                               && core_v_at_active_end == (ref_v_to == 4'd6)
+                               && core_v_at_sync_start == (ref_v_to == 4'd8)
+                               && core_v_at_sync_end == (ref_v_to == 4'd9));
         end
     end
 
