@@ -17,7 +17,7 @@ from synccore.cli.clock import (
 )
 from synccore.cli.show import print_summary
 from synccore.cli.verify import run_verify
-from synccore.clocking.link_report import io_text, link_miss_text
+from synccore.clocking.link_report import link_refusal
 from synccore.errors import SpecError, ToolError
 from synccore.model.pattern import PATTERNS
 from synccore.spec import Spec
@@ -144,12 +144,10 @@ def _build_link(s: Spec, spec: str, out_dir: str, force: bool, board_clock: str 
     if plan.problems:
         fail_spec(SpecError(list(plan.problems)))
     out = console(wide_pipe=True)
-    if plan.setting is not None and not plan.within_tolerance and not accept_clock_error:
-        fail(f"the link's {link_miss_text(plan)}; choose another board clock or a timing the PLL "
-             f"reaches, or pass {ACCEPT_OPTION} (most monitors lock a little off; some refuse)")
-    if not plan.fits_io and not accept_io_limit:
-        fits = f"; modes that fit: {', '.join(plan.suggestions)}" if plan.suggestions else ""
-        fail(f"{io_text(plan)}{fits}; or pass --accept-io-limit to write it anyway")
+    why = link_refusal(plan, accept_clock_error=accept_clock_error, accept_io_limit=accept_io_limit,
+                       ways=(ACCEPT_OPTION, "--accept-io-limit"))  # fmt: skip
+    if why is not None:
+        fail(why)
     try:
         written = write(s, out_dir, testbench=with_testbench, pattern=pattern, link=plan,
                         accept_clock_error=accept_clock_error, accept_io_limit=accept_io_limit,

@@ -3,8 +3,10 @@
 from __future__ import annotations
 
 import tempfile
+from collections.abc import Callable
+from fractions import Fraction
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, TypeVar
 
 import click
 from rich.table import Table
@@ -14,6 +16,8 @@ from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, link_pl
 from synccore.errors import SpecError
 from synccore.spec import Spec
 from synccore.units import hz
+
+T = TypeVar("T")
 
 if TYPE_CHECKING:  # the picture modules load numpy and Pillow: only when the command runs
     from synccore.clocking.plan import ClockPlan
@@ -191,15 +195,10 @@ def _load(spec: str) -> Spec:
 
 def _simulate(s: Spec, pattern: str, engine: str, work_dir: str | None) -> Pins:
     """The pins of the first-light design run on ``engine``, in ``work_dir`` or a temporary one."""
-    from synccore.picture.run import ViewError, simulate
+    from synccore.picture.run import simulate
 
-    try:
-        if work_dir:
-            return simulate(s, pattern, engine=engine, work_dir=Path(work_dir))
-        with tempfile.TemporaryDirectory(prefix="synccore-view-") as tmp:
-            return simulate(s, pattern, engine=engine, work_dir=Path(tmp))
-    except ViewError as err:
-        fail(str(err))
+    return _in_folder(work_dir, "synccore-view-",
+                      lambda folder: simulate(s, pattern, engine=engine, work_dir=folder))
 
 
 def _receive(s: Spec, pattern: str, engine: str, work_dir: str | None, notes: list[str],
@@ -207,16 +206,9 @@ def _receive(s: Spec, pattern: str, engine: str, work_dir: str | None, notes: li
     """The pins a DVI sink decodes from the link core's lanes; its findings go to ``problems``."""
     from synccore.picture.link import receive
     from synccore.picture.link_run import simulate_link
-    from synccore.picture.run import ViewError
 
-    try:
-        if work_dir:
-            lanes = simulate_link(s, pattern, engine=engine, work_dir=Path(work_dir))
-        else:
-            with tempfile.TemporaryDirectory(prefix="synccore-link-") as tmp:
-                lanes = simulate_link(s, pattern, engine=engine, work_dir=Path(tmp))
-    except ViewError as err:
-        fail(str(err))
+    lanes = _in_folder(work_dir, "synccore-link-",
+                       lambda folder: simulate_link(s, pattern, engine=engine, work_dir=folder))
     rec = receive(lanes)
     notes += [f"the sink read {lanes.source}", *rec.notes]
     problems += rec.problems
@@ -242,38 +234,27 @@ def _link_board(s: Spec, spec: str, pattern: str, board_clock: str | None, famil
     """``--link dvi --board``: the DVI top from its clock pin, its TMDS pins read by the sink;
     the title and the pins the sink decodes (its findings and the clocks measured go to
     ``notes`` and ``problems``)."""
-    from synccore.clocking.link_report import io_text, link_miss_text
+    from synccore.clocking.link_report import io_text, link_refusal
     from synccore.picture.link import receive
     from synccore.picture.link_serial import simulate_dvi
-    from synccore.picture.run import ViewError
 
     if no_pll:
         fail("--link dvi plans its own clocks through the family's PLL: drop --no-pll")
     plan = link_plan_for(s, board_clock, family)
     if plan.problems:
         fail_spec(SpecError(list(plan.problems)))
-    if plan.setting is None or plan.serial_hz is None or plan.pixel_hz is None:
-        fail(f"the link's {link_miss_text(plan)}; choose another board clock")
-    if not plan.within_tolerance and not accept_clock_error:
-        fail(f"the link's {link_miss_text(plan)}; choose another board clock or a timing the PLL "
-             f"reaches, or pass {ACCEPT_OPTION} to view it anyway")  # fmt: skip
-    try:
-        if work_dir:
-            run = simulate_dvi(plan, pattern, work_dir=Path(work_dir))
-        else:
-            with tempfile.TemporaryDirectory(prefix="synccore-dvi-") as tmp:
-                run = simulate_dvi(plan, pattern, work_dir=Path(tmp))
-    except ViewError as err:
-        fail(str(err))
+    # beyond the I/O rating is a finding of the view, not a refusal
+    why = link_refusal(plan, accept_clock_error=accept_clock_error, accept_io_limit=True,
+                       ways=(ACCEPT_OPTION, ""))  # fmt: skip
+    if why is not None:
+        fail(why)
+    assert plan.serial_hz is not None and plan.pixel_hz is not None  # a setting exists
+    run = _in_folder(work_dir, "synccore-dvi-",
+                     lambda folder: simulate_dvi(plan, pattern, work_dir=folder))
     for label, measured, planned in (("serial clock", run.f_serial_hz, plan.serial_hz),
                                      ("pixel clock", run.f_pixel_hz, plan.pixel_hz)):  # fmt: skip
-        line = (f"{label} measured on the DVI top: {measured / 1e6:.6f} MHz from the "
-                f"{hz(plan.f_board)} pin (planned {hz(planned)})")  # fmt: skip
-        # the models round each edge to 1 fs: a few parts in 10^8 at most
-        if abs(measured - float(planned)) > float(planned) * 1e-6:
-            problems.append(line + ": the PLL's parameters do not give the planned clock")
-        else:
-            notes.append(line)
+        _measured_clock(f"{label} measured on the DVI top", measured, planned, plan.f_board,
+                        "the PLL's parameters", notes, problems)  # fmt: skip
     if run.mismatches:
         problems.append(f"{run.mismatches} samples where a TMDS _n pin was not the inverse of its _p pin")
     if not plan.fits_io:
@@ -289,27 +270,39 @@ def _link_board(s: Spec, spec: str, pattern: str, board_clock: str | None, famil
 def _simulate_board(plan: ClockPlan, pattern: str, work_dir: str | None, notes: list[str],
                     problems: list[str]) -> Pins:  # fmt: skip
     """The pins of the board top; the pixel clock it measured goes to ``notes`` or ``problems``."""
-    from synccore.picture.run import ViewError, simulate_board
+    from synccore.picture.run import simulate_board
+
+    run = _in_folder(work_dir, "synccore-board-",
+                     lambda folder: simulate_board(plan, pattern, work_dir=folder))
+    assert plan.best is not None  # build_plan exits on a plan without a setting
+    _measured_clock("core clock measured on the board top", run.f_core_hz, plan.best.f_out,
+                    plan.f_board, "the clock primitive's parameters", notes, problems)  # fmt: skip
+    return run.pins
+
+
+def _in_folder(work_dir: str | None, prefix: str, run: Callable[[Path], T]) -> T:
+    """``run`` in ``work_dir``, or in a temporary folder removed afterwards; one line and
+    exit 2 when the simulator is missing or fails."""
+    from synccore.picture.run import ViewError
 
     try:
         if work_dir:
-            run = simulate_board(plan, pattern, work_dir=Path(work_dir))
-        else:
-            with tempfile.TemporaryDirectory(prefix="synccore-board-") as tmp:
-                run = simulate_board(plan, pattern, work_dir=Path(tmp))
+            return run(Path(work_dir))
+        with tempfile.TemporaryDirectory(prefix=prefix) as tmp:
+            return run(Path(tmp))
     except ViewError as err:
         fail(str(err))
-    assert plan.best is not None  # build_plan exits on a plan without a setting
-    planned = float(plan.best.f_out)
-    measured = run.f_core_hz
-    line = (f"core clock measured on the board top: {measured / 1e6:.6f} MHz from the "
-            f"{hz(plan.f_board)} pin (planned {hz(plan.best.f_out)})")  # fmt: skip
+
+
+def _measured_clock(what: str, measured: float, planned: Fraction, f_board: Fraction, source: str,
+                    notes: list[str], problems: list[str]) -> None:  # fmt: skip
+    """A clock measured in a board simulation: a note when it is the planned one, else a problem."""
+    line = f"{what}: {measured / 1e6:.6f} MHz from the {hz(f_board)} pin (planned {hz(planned)})"
     # the models round each edge to 1 fs: a few parts in 10^8 at most
-    if abs(measured - planned) > planned * 1e-6:
-        problems.append(line + ": the clock primitive's parameters do not give the planned clock")
+    if abs(measured - float(planned)) > float(planned) * 1e-6:
+        problems.append(f"{line}: {source} do not give the planned clock")
     else:
         notes.append(line)
-    return run.pins
 
 
 def _show(mon: Monitor, title: str, target: Path, spec: Spec | None, *, tmds: bool = False) -> None:

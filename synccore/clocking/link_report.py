@@ -130,14 +130,20 @@ def link_miss_text(plan: LinkPlan) -> str:
             f"({ppm_text(plan.ppm)}), outside +/-{pct} % ({plan.tolerance_source})")  # fmt: skip
 
 
-def link_refusal(plan: LinkPlan, *, accept_clock_error: bool, accept_io_limit: bool) -> str | None:
-    """Why ``plan`` may not be written as it is (one sentence, naming the way out), or None."""
+def link_refusal(plan: LinkPlan, *, accept_clock_error: bool, accept_io_limit: bool,
+                 ways: tuple[str, str] = ("accept_clock_error=True", "accept_io_limit=True"),
+                 ) -> str | None:  # fmt: skip
+    """Why ``plan`` may not be written as it is (one sentence, naming the way out), or None.
+
+    ``ways`` names the two ways past a refusal (the API's keywords, or the command's options).
+    """
     if plan.setting is None:
         return (f"no PLL setting of {plan.family.key} reaches the serial clock "
                 f"{hz(plan.wanted_pixel_hz * SERIAL_FACTOR)} from {hz(plan.f_board)}")  # fmt: skip
     if not plan.within_tolerance and not accept_clock_error:
-        return f"the link's {link_miss_text(plan)}; pass accept_clock_error=True to write it anyway"
+        return (f"the link's {link_miss_text(plan)}; choose another board clock or a timing the PLL "
+                f"reaches, or pass {ways[0]} (most monitors lock a little off; some refuse)")  # fmt: skip
     if not plan.fits_io and not accept_io_limit:
-        fits = f" (modes that fit: {', '.join(plan.suggestions)})" if plan.suggestions else ""
-        return f"{io_text(plan)}{fits}; pass accept_io_limit=True to write it anyway"
+        fits = f"; modes that fit: {', '.join(plan.suggestions)}" if plan.suggestions else ""
+        return f"{io_text(plan)}{fits}; or pass {ways[1]} to write it anyway"
     return None

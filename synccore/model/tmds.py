@@ -24,6 +24,7 @@ channel 2 red, both with C0 = C1 = 0 (DVI signalling, which HDMI sinks accept).
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Any, TypeVar
 
 import numpy as np
 
@@ -184,11 +185,15 @@ DECODE_KIND, DECODE_VALUE = _decode_tables()
 """Vector decoding: ``DECODE_KIND[words]`` and ``DECODE_VALUE[words]`` for numpy arrays of words."""
 
 
-def eight_bit(level: int, bits: int) -> int:
+Level = TypeVar("Level", int, "np.ndarray[Any, Any]")
+
+
+def eight_bit(level: Level, bits: int) -> Level:
     """A colour level of ``bits`` bits on the 8-bit scale TMDS carries: round(level * 255 / (2**bits - 1)).
 
-    The same scale the simulated monitor draws PNGs with, so a DVI picture and a VGA
-    picture of one design are equal pixel for pixel (2**bits - 1 is odd: no ties).
+    The one rule for it: the link core's tables and the simulated monitor's PNGs both use
+    it, so a DVI picture and a VGA picture of one design are equal pixel for pixel
+    (2**bits - 1 is odd: no ties).  ``level`` is a number or a numpy array of them.
     """
     full = (1 << bits) - 1
     return (level * 255 + full // 2) // full

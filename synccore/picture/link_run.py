@@ -27,10 +27,8 @@ from synccore.emit.bench.link_view import LINK_BENCH, render_link_bench
 from synccore.emit.files import core_artifacts, link_artifacts, pattern_artifacts
 from synccore.model.tmds import eight_bit, encode_stream
 from synccore.picture.link import Lanes
-from synccore.picture.run import ViewError, cycles_needed, model_pins, run_tool
+from synccore.picture.run import ViewError, cycles_needed, model_pins, run_bench, simulator
 from synccore.spec import Spec
-from synccore.verification.simulate import VERILATOR_ARGS, cache_dir
-from synccore.verification.tools import INSTALL_HINT, build_env, find
 
 LINK_ENGINES = ("icarus", "ghdl", "verilator", "model")
 WORDS_SOURCE = "encoder words (the serialiser is a vendor primitive without an open model)"
@@ -85,31 +83,9 @@ def simulate_link(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
     n = cycles or cycles_needed(spec)
     if engine == "model":
         return model_lanes(spec, pattern, n)
-    tool = find(engine)
-    if tool is None:
-        raise ViewError(f"simulator {engine!r} not found: {INSTALL_HINT[engine]}")
-    language = tool.languages[0]
-    work_dir.mkdir(parents=True, exist_ok=True)
-    files = link_sources(spec, pattern, language)
-    for name, text in files.items():
-        (work_dir / name).write_text(text, encoding="utf-8")
-    out = (work_dir / "symbols.txt").resolve()
-    out.unlink(missing_ok=True)
-    names = list(files)
-    if engine == "icarus":
-        run_tool(["iverilog", "-g2005", "-s", LINK_BENCH, "-o", "link.vvp", *names], work_dir)
-        run_tool(["vvp", "-n", "link.vvp", f"+synccore_symbols={out}", f"+synccore_stop={n}"], work_dir)
-    elif engine == "ghdl":
-        std = "--std=08"
-        run_tool(["ghdl", "-a", std, *names], work_dir)
-        run_tool(["ghdl", "-e", std, LINK_BENCH], work_dir)
-        run_tool(["ghdl", "-r", std, LINK_BENCH, f"-gsymbols_path={out}", f"-gstop_at={n}"], work_dir)
-    else:
-        run_tool(["verilator", "--binary", *VERILATOR_ARGS, "-j", "2", "--top-module", LINK_BENCH,
-              "-Mdir", "obj", *names], work_dir, build_env(tool, cache_dir()))  # fmt: skip
-        run_tool([str(work_dir / "obj" / f"V{LINK_BENCH}"), f"+synccore_symbols={out}",
-              f"+synccore_stop={n}"], work_dir, tool.env)  # fmt: skip
-    if not out.is_file():
-        raise ViewError(f"{engine}: the link bench wrote no {out.name}")
-    words = read_symbols(out.read_text(), spec.core.pixels_per_clock)
+    tool = simulator(engine)
+    files = link_sources(spec, pattern, tool.languages[0])
+    text = run_bench(tool, files, LINK_BENCH, work_dir, record="symbols.txt",
+                     plusarg="synccore_symbols", generic="symbols_path", stop=n)  # fmt: skip
+    words = read_symbols(text, spec.core.pixels_per_clock)
     return Lanes(float(1 / spec.pixel_clock_hz), words, WORDS_SOURCE)

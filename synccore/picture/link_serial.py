@@ -26,8 +26,7 @@ from synccore.emit.files import core_artifacts, dvi_artifacts, pattern_artifacts
 from synccore.emit.link.serialiser import IO_MODELS, render_io_models
 from synccore.model.tmds import WORD_BITS
 from synccore.picture.link import Lanes, lanes_from_bits, serial_bits
-from synccore.picture.run import ViewError, cycles_needed, run_tool
-from synccore.verification.tools import INSTALL_HINT, find
+from synccore.picture.run import ViewError, cycles_needed, run_bench, simulator
 
 SERIAL_SOURCE = "the serial lanes (the DVI top's _p pins, sampled at the bit rate)"
 EXTRA_PIXELS = 64
@@ -94,23 +93,14 @@ def simulate_dvi(plan: LinkPlan, pattern: str, *, work_dir: Path,
     :func:`~synccore.picture.run.cycles_needed`); the lanes' period is the measured pixel
     period, not the spec's.
     """
-    if find("icarus") is None:
-        raise ViewError(f"the DVI top runs in Icarus Verilog, not found: {INSTALL_HINT['icarus']}")
+    tool = simulator("icarus")  # the PLL and I/O models are Verilog
     if plan.setting is None:
         raise ViewError("the link plan has no PLL setting to simulate")
     spec = plan.spec
     pixels = (cycles or cycles_needed(spec)) * spec.core.pixels_per_clock + EXTRA_PIXELS
-    work_dir.mkdir(parents=True, exist_ok=True)
-    files = dvi_sources(plan, pattern)
-    for name, text in files.items():
-        (work_dir / name).write_text(text, encoding="utf-8")
-    out = (work_dir / "bits.txt").resolve()
-    out.unlink(missing_ok=True)
-    run_tool(["iverilog", "-g2005", "-s", DVI_BENCH, "-o", "dvi.vvp", *files], work_dir)
-    run_tool(["vvp", "-n", "dvi.vvp", f"+synccore_bits={out}", f"+synccore_stop={pixels}"], work_dir)
-    if not out.is_file():
-        raise ViewError(f"icarus: the serial DVI bench wrote no {out.name}")
-    bits, clock_bits, figures = read_bits(out.read_text())
+    text = run_bench(tool, dvi_sources(plan, pattern), DVI_BENCH, work_dir, record="bits.txt",
+                     plusarg="synccore_bits", generic="bits_path", stop=pixels)  # fmt: skip
+    bits, clock_bits, figures = read_bits(text)
     if "serial" not in figures or "core" not in figures:
         raise ViewError("the serial DVI bench's record has no clock measurement")
     f_serial = _rate(figures["serial"], 0.5)  # a sample on each edge: two per serial cycle

@@ -46,6 +46,7 @@ from fractions import Fraction
 import numpy as np
 from PIL import Image
 
+from synccore.model.tmds import eight_bit
 from synccore.picture.naming import Measured, also_text, name_mode
 from synccore.picture.run import Pins
 from synccore.spec import Axis, Spec
@@ -162,8 +163,8 @@ def parse_range(text: str) -> tuple[tuple[float, float], tuple[float, float]]:
 
 
 def to_8bit(level: np.ndarray, bits: int) -> np.ndarray:
-    full = (1 << bits) - 1
-    return ((level * 255 + full // 2) // full).astype(np.uint8)
+    """Levels of ``bits`` bits as 8-bit PNG values (:func:`synccore.model.tmds.eight_bit`)."""
+    return eight_bit(level, bits).astype(np.uint8)
 
 
 

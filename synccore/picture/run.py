@@ -48,7 +48,7 @@ from synccore.model import Timing
 from synccore.model.pattern import levels, picture_size, pixel_column
 from synccore.spec import Spec
 from synccore.verification.simulate import VERILATOR_ARGS, cache_dir, locked
-from synccore.verification.tools import INSTALL_HINT, build_env, find
+from synccore.verification.tools import INSTALL_HINT, Tool, build_env, find
 
 VIEW_ENGINES = ("icarus", "ghdl", "verilator", "builtin", "model")
 CLOCK_NS = 10
@@ -103,6 +103,61 @@ def run_tool(cmd: list[str], cwd: Path, env: dict[str, str] | None = None) -> No
         raise ViewError(f"{' '.join(cmd[:2])} failed:\n{proc.stdout}{proc.stderr}")
 
 
+def simulator(engine: str) -> Tool:
+    """The simulator called ``engine``; :class:`ViewError` with the install hint when absent."""
+    tool = find(engine)
+    if tool is None:
+        raise ViewError(f"simulator {engine!r} not found: {INSTALL_HINT[engine]}")
+    return tool
+
+
+def run_bench(tool: Tool, files: dict[str, str], bench: str, work_dir: Path, *, record: str,
+              plusarg: str, generic: str, stop: int) -> str:  # fmt: skip
+    """Run ``bench`` (one of ``files``, all in the tool's language) on ``tool`` for ``stop``
+    cycles in ``work_dir``; the text of the record file the bench writes.
+
+    The bench takes the record's path as the plusarg ``plusarg`` (Verilog) or the generic
+    ``generic`` (VHDL), and the cycle count as ``synccore_stop`` / ``stop_at``.  Verilator
+    builds are kept in the synccore cache by content, as they are slow.
+    """
+    work_dir.mkdir(parents=True, exist_ok=True)
+    for name, text in files.items():
+        (work_dir / name).write_text(text, encoding="utf-8")
+    out = (work_dir / record).resolve()
+    out.unlink(missing_ok=True)
+    names = list(files)
+    if tool.name == "icarus":
+        run_tool(["iverilog", "-g2005", "-s", bench, "-o", "bench.vvp", *names], work_dir)
+        run_tool(["vvp", "-n", "bench.vvp", f"+{plusarg}={out}", f"+synccore_stop={stop}"], work_dir)
+    elif tool.name == "ghdl":
+        std = "--std=08"
+        run_tool(["ghdl", "-a", std, *names], work_dir)
+        run_tool(["ghdl", "-e", std, bench], work_dir)
+        run_tool(["ghdl", "-r", std, bench, f"-g{generic}={out}", f"-gstop_at={stop}"], work_dir)
+    else:
+        binary = _verilator_binary(tool, files, bench)
+        run_tool([str(binary), f"+{plusarg}={out}", f"+synccore_stop={stop}"], work_dir, tool.env)
+    if not out.is_file():
+        raise ViewError(f"{tool.name}: the bench wrote no {out.name}")
+    return out.read_text()
+
+
+def _verilator_binary(tool: Tool, files: dict[str, str], bench: str) -> Path:
+    """The Verilator build of ``files``, made once per content hash in the synccore cache."""
+    key = hashlib.sha256(json.dumps(sorted(files.items())).encode()).hexdigest()[:24]
+    build = cache_dir() / f"view-verilator-{key}"
+    binary = build / "obj" / f"V{bench}"
+    with locked(build):  # parallel runs of the same design build it once
+        if not binary.is_file():
+            shutil.rmtree(build, ignore_errors=True)
+            build.mkdir(parents=True)
+            for name, text in files.items():
+                (build / name).write_text(text, encoding="utf-8")
+            run_tool(["verilator", "--binary", *VERILATOR_ARGS, "-j", "2", "--top-module", bench,
+                      "-Mdir", "obj", *files], build, build_env(tool, cache_dir()))  # fmt: skip
+    return binary
+
+
 def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
              cycles: int | None = None) -> Pins:  # fmt: skip
     """Run the first-light design of ``spec`` with ``pattern`` on ``engine``; return its pins.
@@ -126,41 +181,11 @@ def simulate(spec: Spec, pattern: str, *, engine: str, work_dir: Path,
                             "(pip install 'synccore[amaranth]'), or use --sim model") from None
         return read_screen(run_picture(spec, pattern, n), period_s=period_s, bits=bits,
                            pixels_per_clock=ppc)  # fmt: skip
-    tool = find(engine)
-    if tool is None:
-        raise ViewError(f"simulator {engine!r} not found: {INSTALL_HINT[engine]}")
-    language = tool.languages[0]
-    work_dir.mkdir(parents=True, exist_ok=True)
-    files = sources(spec, pattern, language)
-    for name, text in files.items():
-        (work_dir / name).write_text(text, encoding="utf-8")
-    screen = (work_dir / "screen.txt").resolve()
-    screen.unlink(missing_ok=True)
-    names = list(files)
-    if engine == "icarus":
-        run_tool(["iverilog", "-g2005", "-s", BENCH, "-o", "view.vvp", *names], work_dir)
-        run_tool(["vvp", "-n", "view.vvp", f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir)
-    elif engine == "ghdl":
-        std = "--std=08"
-        run_tool(["ghdl", "-a", std, *names], work_dir)
-        run_tool(["ghdl", "-e", std, BENCH], work_dir)
-        run_tool(["ghdl", "-r", std, BENCH, f"-gevents_path={screen}", f"-gstop_at={n}"], work_dir)
-    else:
-        key = hashlib.sha256(json.dumps(sorted(files.items())).encode()).hexdigest()[:24]
-        build = cache_dir() / f"view-verilator-{key}"
-        binary = build / "obj" / f"V{BENCH}"
-        with locked(build):  # parallel runs of the same design build it once
-            if not binary.is_file():
-                shutil.rmtree(build, ignore_errors=True)
-                build.mkdir(parents=True)
-                for name, text in files.items():
-                    (build / name).write_text(text, encoding="utf-8")
-                run_tool(["verilator", "--binary", *VERILATOR_ARGS, "-j", "2", "--top-module", BENCH,
-                      "-Mdir", "obj", *names], build, build_env(tool, cache_dir()))  # fmt: skip
-        run_tool([str(binary), f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir, tool.env)
-    if not screen.is_file():
-        raise ViewError(f"{engine}: the bench wrote no {screen.name}")
-    return read_screen(screen.read_text(), period_s=period_s, bits=bits, pixels_per_clock=ppc)
+    tool = simulator(engine)
+    files = sources(spec, pattern, tool.languages[0])
+    text = run_bench(tool, files, BENCH, work_dir, record="screen.txt",
+                     plusarg="synccore_screen", generic="events_path", stop=n)  # fmt: skip
+    return read_screen(text, period_s=period_s, bits=bits, pixels_per_clock=ppc)
 
 
 @dataclass(frozen=True)
@@ -192,21 +217,12 @@ def simulate_board(plan: ClockPlan, pattern: str, *, work_dir: Path,
     ``cycles`` counts core clock cycles after the core leaves reset (default
     :func:`cycles_needed`).  The pins' period is the measured one, not the spec's.
     """
-    if find("icarus") is None:
-        raise ViewError(f"the board bench runs in Icarus Verilog, not found: {INSTALL_HINT['icarus']}")
+    tool = simulator("icarus")  # the PLL models are Verilog
     spec = plan.spec
     n = cycles or cycles_needed(spec)
-    work_dir.mkdir(parents=True, exist_ok=True)
-    files = board_sources(plan, pattern)
-    for name, text in files.items():
-        (work_dir / name).write_text(text, encoding="utf-8")
-    screen = (work_dir / "screen.txt").resolve()
-    screen.unlink(missing_ok=True)
-    run_tool(["iverilog", "-g2005", "-s", BOARD_BENCH, "-o", "board.vvp", *files], work_dir)
-    run_tool(["vvp", "-n", "board.vvp", f"+synccore_screen={screen}", f"+synccore_stop={n}"], work_dir)
-    if not screen.is_file():
-        raise ViewError(f"icarus: the board bench wrote no {screen.name}")
-    lines = screen.read_text().splitlines()
+    record = run_bench(tool, board_sources(plan, pattern), BOARD_BENCH, work_dir, record="screen.txt",
+                       plusarg="synccore_screen", generic="events_path", stop=n)  # fmt: skip
+    lines = record.splitlines()
     times = [line.split() for line in lines if line.startswith("time ")]
     if len(times) != 1 or n < 2:
         raise ViewError("the board bench's record has no clock measurement")

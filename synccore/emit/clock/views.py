@@ -17,6 +17,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
+from synccore.emit._columns import aligned
 from synccore.emit.clock.primitives import Instance, Value
 from synccore.emit.clock.wrapper import ClockContext
 from synccore.units import fixed
@@ -71,13 +72,6 @@ def _commas(rows: list[tuple[str, str]]) -> list[tuple[str, str]]:
     return [(t + ("," if i < len(rows) - 1 else ""), c) for i, (t, c) in enumerate(rows)]
 
 
-def _aligned(rows: list[tuple[str, str]], mark: str) -> list[str]:
-    if not rows:
-        return []
-    w = max(len(text) for text, _ in rows)
-    return [f"{text.ljust(w)}  {mark} {c}".rstrip() if c else text for text, c in rows]
-
-
 def _instance_view(
     inst: Instance, literal: Callable[[Value], str], connect: str, mark: str
 ) -> dict[str, object]:
@@ -91,8 +85,8 @@ def _instance_view(
     return {
         "primitive": inst.primitive,
         "label": inst.label,
-        "params": _aligned(_commas(params), mark),
-        "pins": _aligned(_commas(pins), mark),
+        "params": aligned(_commas(params), mark),
+        "pins": aligned(_commas(pins), mark),
     }
 
 
@@ -107,7 +101,7 @@ def verilog_view(ctx: ClockContext) -> dict[str, object]:
     wires = [f"wire {'' if w is None else f'[{w - 1}:0] '}{n};" for n, w in ctx.wires]
     return {
         "header": [f"// {line}".rstrip() for line in ctx.header],
-        "ports": _aligned(ports, "//"),
+        "ports": aligned(ports, "//"),
         "wires": wires,
         "instances": insts,
         "cyclone_in": f"{{1'b0, {ctx.clk_in}}}",
@@ -152,7 +146,7 @@ def vhdl_view(ctx: ClockContext) -> dict[str, object]:
     wires = [f"signal {n} : {_vhdl_port_type(w)};" for n, w in ctx.wires]
     return {
         "header": [f"-- {line}".rstrip() for line in ctx.header],
-        "ports": _aligned(ports, "--"),
+        "ports": aligned(ports, "--"),
         "wires": wires,
         "components": comps,
         "instances": insts,
@@ -180,11 +174,6 @@ def vhdl_components(instances: tuple[Instance, ...]) -> list[dict[str, object]]:
             seen.add(inst.primitive)
             comps.append(_vhdl_component(inst))
     return comps
-
-
-def aligned(rows: list[tuple[str, str]], mark: str) -> list[str]:
-    """``(text, comment)`` rows with the comments (after ``mark``) in one column."""
-    return _aligned(rows, mark)
 
 
 def vhdl_type(width: int | None) -> str:

@@ -22,6 +22,7 @@ from dataclasses import dataclass
 from synccore.clocking.plan import ClockPlan
 from synccore.emit import _verilog as vl
 from synccore.emit import _vhdl as vh
+from synccore.emit._columns import aligned
 from synccore.emit._jinja import environment
 from synccore.emit.clock.wrapper import ClockContext, build_clock_context, plan_lines
 from synccore.emit.first_light.pattern import PatternContext, pattern_context
@@ -165,37 +166,34 @@ def build_board_context(plan: ClockPlan, pattern: str) -> BoardContext:
     )
 
 
-def _aligned(rows: list[tuple[str, str]], mark: str) -> list[str]:
-    width = max(len(text) for text, _ in rows)
-    return [f"{text.ljust(width)}  {mark} {comment}" for text, comment in rows]
-
-
-def _verilog_ports(ctx: BoardContext) -> list[str]:
+def verilog_port_lines(ports: tuple[BoardPin, ...]) -> list[str]:
+    """The port list of a top whose ports are FPGA pins, with their comments, in Verilog."""
     rows = []
-    for i, pin in enumerate(ctx.ports):
+    for i, pin in enumerate(ports):
         kind = "input " if pin.direction == "in" else "output"
         bus = "      " if pin.width is None else f"[{pin.msb}:0]".ljust(6)
-        sep = "," if i < len(ctx.ports) - 1 else ""
+        sep = "," if i < len(ports) - 1 else ""
         rows.append((f"{kind} wire {bus} {pin.name}{sep}", pin.comment))
-    return _aligned(rows, "//")
+    return aligned(rows, "//")
 
 
-def _vhdl_ports(ctx: BoardContext) -> list[str]:
-    width = max(len(pin.name) for pin in ctx.ports)
+def vhdl_port_lines(ports: tuple[BoardPin, ...]) -> list[str]:
+    """The same in VHDL."""
+    width = max(len(pin.name) for pin in ports)
     rows = []
-    for i, pin in enumerate(ctx.ports):
+    for i, pin in enumerate(ports):
         kind = "in " if pin.direction == "in" else "out"
         typ = "std_logic" if pin.width is None else f"std_logic_vector({pin.msb} downto 0)"
-        sep = ";" if i < len(ctx.ports) - 1 else ""
+        sep = ";" if i < len(ports) - 1 else ""
         rows.append((f"{pin.name.ljust(width)} : {kind} {typ}{sep}", pin.comment))
-    return _aligned(rows, "--")
+    return aligned(rows, "--")
 
 
 def render_board(plan: ClockPlan, pattern: str, language: str) -> str:
     """The board top of ``plan``'s spec with ``pattern``, in ``language`` ("verilog" or "vhdl")."""
     ctx = build_board_context(plan, pattern)
     if language == "verilog":
-        view = {"header": vl.comment_lines(ctx.header), "ports": _verilog_ports(ctx)}
+        view = {"header": vl.comment_lines(ctx.header), "ports": verilog_port_lines(ctx.ports)}
         return environment().get_template("first_light/board_top.v.j2").render(c=ctx, v=view)
-    view = {"header": vh.comment_lines(ctx.header), "ports": _vhdl_ports(ctx)}
+    view = {"header": vh.comment_lines(ctx.header), "ports": vhdl_port_lines(ctx.ports)}
     return environment().get_template("first_light/board_top.vhd.j2").render(c=ctx, v=view)

@@ -200,11 +200,6 @@ def _caution() -> list[str]:
     ]
 
 
-def _vhdl_bits(value: int, width: int) -> str:
-    """A VHDL bit-string literal of ``value`` in ``width`` bits, e.g. ``"01"``."""
-    return '"' + format(value, f"0{width}b") + '"'
-
-
 def render_pattern(spec: Spec, pattern: str, language: str) -> str:
     """The pattern generator of ``spec`` in ``language`` ("verilog" or "vhdl")."""
     c = pattern_context(spec, pattern)
@@ -226,7 +221,7 @@ def render_pattern(spec: Spec, pattern: str, language: str) -> str:
         "header": vh.comment_lines(c.header),
         "pads": {ch.base: vh.zeros(ch.pad) for ch in c.channels},
         "grid_zero": vh.zeros(GRID_BITS),
-        "lane_low": [_vhdl_bits(lane.index, c.core.x_shift) for lane in c.lanes] if c.has_lanes else [],
+        "lane_low": [vh.bits(lane.index, c.core.x_shift) for lane in c.lanes] if c.has_lanes else [],
     }
     return environment().get_template("first_light/pattern.vhd.j2").render(c=c, v=view)
 

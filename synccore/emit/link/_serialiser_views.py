@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from synccore.emit import _verilog, _vhdl
+from synccore.emit._columns import aligned
 from synccore.emit._jinja import environment
 from synccore.emit.link._serialiser_context import SerialiserContext
 
@@ -69,11 +70,6 @@ def _hard_lanes(ctx: SerialiserContext, verilog: bool) -> list[dict[str, object]
     return out
 
 
-def _aligned(rows: list[tuple[str, str]], mark: str) -> list[str]:
-    width = max(len(text) for text, _ in rows)
-    return [f"{text.ljust(width)}  {mark} {comment}" for text, comment in rows]
-
-
 def _verilog_view(ctx: SerialiserContext) -> dict[str, object]:
     rows = []
     for i, p in enumerate(ctx.ports):
@@ -82,7 +78,7 @@ def _verilog_view(ctx: SerialiserContext) -> dict[str, object]:
         rows.append((f"{kind} {_verilog.vector(p.width).ljust(6)} {p.name}{comma}", p.comment))
     lanes = _lanes(ctx, verilog=True)
     return {
-        "header": _verilog.comment_lines(ctx.header), "ports": _aligned(rows, "//"),
+        "header": _verilog.comment_lines(ctx.header), "ports": aligned(rows, "//"),
         "lanes": lanes, "pins": _pins(ctx, lanes), "hard_lanes": _hard_lanes(ctx, verilog=True),
         "sr_zero": _verilog.uint(0, ctx.bits), "sr_range": _verilog.vector(ctx.bits),
         "phase_range": _verilog.vector(ctx.phase_width),
@@ -101,7 +97,7 @@ def _vhdl_view(ctx: SerialiserContext) -> dict[str, object]:
                      p.comment))  # fmt: skip
     lanes = _lanes(ctx, verilog=False)
     return {
-        "header": _vhdl.comment_lines(ctx.header), "ports": _aligned(rows, "--"),
+        "header": _vhdl.comment_lines(ctx.header), "ports": aligned(rows, "--"),
         "lanes": lanes, "pins": _pins(ctx, lanes), "hard_lanes": _hard_lanes(ctx, verilog=False),
         "sr_zero": _vhdl.zeros(ctx.bits), "sr_type": _vhdl.port_type(ctx.bits),
         "pin_type": f'"{ctx.ice40_pin_type}"',

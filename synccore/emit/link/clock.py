@@ -24,10 +24,10 @@ from pathlib import PurePath
 from synccore._version import __version__
 from synccore.clocking.link import LinkPlan
 from synccore.clocking.link_report import link_facts
+from synccore.emit._columns import aligned
 from synccore.emit._jinja import environment
 from synccore.emit.clock.primitives import Instance
 from synccore.emit.clock.views import (
-    aligned,
     verilog_instance,
     vhdl_components,
     vhdl_instance,

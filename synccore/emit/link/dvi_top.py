@@ -22,18 +22,11 @@ from synccore.clocking.link import LinkPlan
 from synccore.emit import _verilog as vl
 from synccore.emit import _vhdl as vh
 from synccore.emit._jinja import environment
+from synccore.emit.first_light.board import BoardPin, verilog_port_lines, vhdl_port_lines
 from synccore.emit.link.clock import header_lines
 from synccore.emit.link.link_core import LinkCoreContext, link_core_context
 from synccore.emit.link.serialiser import SHIFT_FAMILIES
 from synccore.units import hz
-
-
-@dataclass(frozen=True)
-class DviPort:
-    name: str
-    direction: str  # in | out
-    msb: int | None  # None: one bit
-    comment: str
 
 
 @dataclass(frozen=True)
@@ -43,7 +36,7 @@ class DviContext:
     link: LinkCoreContext
     clock: str  # the link clock wrapper's module
     serialiser: str
-    ports: tuple[DviPort, ...]
+    ports: tuple[BoardPin, ...]
     board_clk: str
     reset_n: str
     pins: dict[str, str]  # clk_p, clk_n, data_p, data_n: the TMDS pins
@@ -59,16 +52,18 @@ def dvi_module(plan: LinkPlan) -> str:
     return f"{plan.spec.name}_dvi"
 
 
-def _ports(plan: LinkPlan) -> tuple[DviPort, ...]:
+def _ports(plan: LinkPlan) -> tuple[BoardPin, ...]:
     p = plan.spec.port_prefix
-    return (
-        DviPort(p + "board_clk", "in", None, f"the board's {hz(plan.f_board)} oscillator"),
-        DviPort(p + "reset_n", "in", None, "reset button to ground, active low (optional: pulled up)"),
-        DviPort(p + "tmds_clk_p", "out", None, "TMDS clock pair, +"),
-        DviPort(p + "tmds_clk_n", "out", None, "TMDS clock pair, -"),
-        DviPort(p + "tmds_data_p", "out", 2, "TMDS data pairs 0 (blue, syncs), 1 (green), 2 (red), +"),
-        DviPort(p + "tmds_data_n", "out", 2, "TMDS data pairs, -"),
+    rows = (
+        ("board_clk", "in", None, "clock", f"the board's {hz(plan.f_board)} oscillator"),
+        ("reset_n", "in", None, "reset", "reset button to ground, active low (optional: pulled up)"),
+        ("tmds_clk_p", "out", None, "tmds", "TMDS clock pair, +"),
+        ("tmds_clk_n", "out", None, "tmds", "TMDS clock pair, -"),
+        ("tmds_data_p", "out", 3, "tmds", "TMDS data pairs 0 (blue, syncs), 1 (green), 2 (red), +"),
+        ("tmds_data_n", "out", 3, "tmds", "TMDS data pairs, -"),
     )
+    return tuple(BoardPin(p + name, p + name, direction, width, (width or 1) - 1, role, comment)
+                 for name, direction, width, role, comment in rows)  # fmt: skip
 
 
 def _header(plan: LinkPlan, link: LinkCoreContext, module: str) -> tuple[str, ...]:
@@ -119,25 +114,11 @@ def build_dvi_context(plan: LinkPlan, pattern: str) -> DviContext:
     )
 
 
-def _aligned(rows: list[tuple[str, str]], mark: str) -> list[str]:
-    width = max(len(text) for text, _ in rows)
-    return [f"{text.ljust(width)}  {mark} {comment}" for text, comment in rows]
-
-
 def render_dvi_top(plan: LinkPlan, pattern: str, language: str) -> str:
     """The DVI top of ``plan``'s spec with ``pattern`` in ``language`` ("verilog" or "vhdl")."""
     c = build_dvi_context(plan, pattern)
-    n = len(c.ports)
     if language == "verilog":
-        rows = [(f"{'input ' if q.direction == 'in' else 'output'} wire "
-                 f"{'      ' if q.msb is None else f'[{q.msb}:0]'.ljust(6)} "
-                 f"{q.name}{',' if i < n - 1 else ''}", q.comment)
-                for i, q in enumerate(c.ports)]  # fmt: skip
-        view = {"header": vl.comment_lines(c.header), "ports": _aligned(rows, "//")}
+        view = {"header": vl.comment_lines(c.header), "ports": verilog_port_lines(c.ports)}
         return environment().get_template("link/dvi_top.v.j2").render(c=c, v=view)
-    width = max(len(q.name) for q in c.ports)
-    rows = [(f"{q.name.ljust(width)} : {'in ' if q.direction == 'in' else 'out'} "
-             f"{vh.port_type(None if q.msb is None else q.msb + 1)}{';' if i < n - 1 else ''}", q.comment)
-            for i, q in enumerate(c.ports)]  # fmt: skip
-    view = {"header": vh.comment_lines(c.header), "ports": _aligned(rows, "--")}
+    view = {"header": vh.comment_lines(c.header), "ports": vhdl_port_lines(c.ports)}
     return environment().get_template("link/dvi_top.vhd.j2").render(c=c, v=view)
