@@ -17,6 +17,7 @@ from fractions import Fraction
 from pathlib import Path
 
 from synccore._version import __version__
+from synccore.analog import DacDesign, design_dac
 from synccore.clocking import FAMILIES, FAMILY_KEYS, Family, advice
 from synccore.clocking.link import LinkPlan, plan_link
 from synccore.clocking.link_report import link_refusal
@@ -53,21 +54,12 @@ from synccore.verification.prove import ProofResult, prove
 from synccore.verification.tools import INSTALL_HINT, unusable
 
 __all__ = [
-    "Axis",
-    "ClockPlan", "LinkPlan", "CoreOptions",
-    "Location",
-    "Mode",
-    "Outputs",
-    "Problem",
-    "ProofResult",
-    "Report",
-    "Spec",
-    "SpecError",
-    "Timing",
-    "ToolError",
+    "Axis", "ClockPlan", "CoreOptions", "DacDesign", "LinkPlan", "Location", "Mode", "Outputs", "Problem",
+    "ProofResult", "Report", "Spec", "SpecError", "Timing", "ToolError",
     "__version__",
     "adjusted_spec",
     "adjusted_text",
+    "design_dac",
     "find_mode",
     "fit",
     "json_schema",

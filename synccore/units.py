@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+import re
 from fractions import Fraction
 
 _STEPS = ((10**9, "GHz"), (10**6, "MHz"), (10**3, "kHz"), (1, "Hz"))
@@ -34,3 +36,40 @@ def in_unit(value: Fraction | int, unit: str, digits: int = 3) -> str:
 
 def percent(value: Fraction, digits: int = 1) -> str:
     return f"{fixed(value * 100, digits)} %"
+
+
+_PREFIX: dict[str, Fraction | int] = {
+    "": 1, "m": Fraction(1, 10**3), "u": Fraction(1, 10**6), "µ": Fraction(1, 10**6), "k": 10**3, "M": 10**6,
+}  # fmt: skip
+_QUANTITY = re.compile(
+    r"\s*([0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE]([+-]?[0-9]{1,3}))?\s*([mukMµ]?)\s*(\S*)\s*\Z"
+)
+UNIT_SPELLINGS = {"V": ("v",), "A": ("a",), "ohm": ("ohm", "ohms", "Ω", "r")}
+MAX_EXPONENT = 30
+"""Numbers with units are read exactly; an exponent beyond ±30 is refused, not expanded."""
+
+
+def parse_quantity(value: object, unit: str) -> Fraction | None:
+    """``3.3V``, ``3300 mV``, ``8mA``, ``2.2k`` (ohms) as an exact number in ``unit``; None if not one.
+
+    A bare number is taken in ``unit``; a prefix (m, u, k, M) scales it; the unit, when
+    written, must be ``unit`` (V, A, or ohm/Ω/R).  Exponents are bounded (:data:`MAX_EXPONENT`).
+    """
+    if isinstance(value, bool):
+        return None
+    if isinstance(value, int):
+        return Fraction(value)
+    if isinstance(value, float):
+        return Fraction(repr(value)) if math.isfinite(value) and abs(value) < 10**MAX_EXPONENT else None
+    if not isinstance(value, str):
+        return None
+    match = _QUANTITY.match(value)
+    if not match:
+        return None
+    number, exponent, prefix, written = match.groups()
+    if written and written.lower() not in UNIT_SPELLINGS[unit] and written != "Ω":
+        return None
+    if exponent is not None and abs(int(exponent)) > MAX_EXPONENT:
+        return None
+    out = Fraction(number) * Fraction(10) ** int(exponent or 0)
+    return out * _PREFIX[prefix]

@@ -19,6 +19,7 @@ STAGES = (
     ("timings",),
     ("model",),
     ("clocking",),
+    ("analog",),
     ("emit",),
     ("amaranth",),
     ("verification",),

@@ -11,6 +11,7 @@ import click
 from synccore._version import __version__
 from synccore.cli.build import build
 from synccore.cli.clock import clock
+from synccore.cli.dac import dac_command
 from synccore.cli.edid import edid_command
 from synccore.cli.fit import fit_command
 from synccore.cli.modes import modes_command, new_command
@@ -27,5 +28,5 @@ def main() -> None:
 
 
 for command in (build, show, schema, modes_command, new_command, verify_command, clock,
-                view_command, fit_command, prove_command, edid_command):  # fmt: skip
+                view_command, fit_command, prove_command, edid_command, dac_command):  # fmt: skip
     main.add_command(command)

@@ -11,6 +11,7 @@ from typing import TYPE_CHECKING, TypeVar
 import click
 from rich.table import Table
 
+from synccore.analog import CAUTIONS, network_text
 from synccore.cli._common import FAILED, console, fail, fail_spec, load_spec
 from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, link_plan_for, refusal
 from synccore.errors import SpecError
@@ -20,6 +21,8 @@ from synccore.units import hz
 T = TypeVar("T")
 
 if TYPE_CHECKING:  # the picture modules load numpy and Pillow: only when the command runs
+    from PIL.Image import Image
+
     from synccore.clocking.plan import ClockPlan
     from synccore.picture.monitor import Monitor
     from synccore.picture.run import Pins
@@ -70,11 +73,14 @@ VCD_HINT = ("give the SPEC too (synccore view SPEC --vcd ...) to check that the 
 @click.option("--edid", "edid_file", type=click.Path(dir_okay=False), metavar="FILE",
               help="Accept or refuse the signal as the display whose EDID this is would: its "
                    "listed timings, range limits and maximum pixel clock (needs SPEC).")
+@click.option("--dac", metavar="FILE|LIST", default=None,
+              help="Also show the picture as a resistor DAC would give it into 75 ohms: a design "
+                   "file (synccore dac --save) or settings inline, e.g. io=3.3V,series=E24 (needs SPEC).")
 def view_command(spec: str | None, engine: str, pattern: str, out_png: str | None,
                  monitor_range: str | None, vcd: str | None, mapping: str | None,
                  work_dir: str | None, link: str | None, whole_board: bool, board_clock: str | None,
                  family: str | None, no_pll: bool, accept_clock_error: bool,
-                 edid_file: str | None) -> None:  # fmt: skip
+                 edid_file: str | None, dac: str | None) -> None:  # fmt: skip
     """Simulate SPEC's first-light design and look at it as a monitor would: rates, mode, PNG.
 
     With ``--vcd`` the pins come from your own simulation; SPEC, when given too, is the
@@ -90,8 +96,7 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     clock_problems: list[str] = []
     _check_options(engine, vcd, link, whole_board, bool(board_clock or family or no_pll
                                                         or accept_clock_error))  # fmt: skip
-    if edid_file is not None and spec is None:
-        fail("--edid needs a SPEC: the timing the display judges")
+    _need_spec(spec, edid_file, dac)
     if whole_board:
         if spec is None:
             raise click.UsageError("--board needs a SPEC")
@@ -125,7 +130,10 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
         mon.notes.append(VCD_HINT)
     if edid_file is not None and s is not None:
         _judge_edid(mon, s, pins, edid_file)
-    _show(mon, title, Path(out_png or f"{name}_view.png"), s, tmds=link is not None)
+    image = mon.image
+    if dac is not None and s is not None:
+        image = _through_dac(mon, s, dac)
+    _show(mon, title, Path(out_png or f"{name}_view.png"), s, tmds=link is not None, image=image)
     if mon.problems:
         fail((f"PROBLEM {problem}" for problem in mon.problems), code=FAILED)
 
@@ -156,6 +164,31 @@ def _judge_edid(mon: Monitor, s: Spec, pins: Pins, edid_file: str) -> None:
     said = "accepts" if verdict.accepted else "refuses"
     line = f"the display of {edid_file} {said} this signal: " + "; ".join(verdict.findings)
     (mon.notes if verdict.accepted else mon.problems).append(line)
+
+
+def _need_spec(spec: str | None, edid_file: str | None, dac: str | None) -> None:
+    if edid_file is not None and spec is None:
+        fail("--edid needs a SPEC: the timing the display judges")
+    if dac is not None and spec is None:
+        fail("--dac needs a SPEC: its colour depth gives the DAC's bits")
+
+
+def _through_dac(mon: Monitor, s: Spec, dac: str) -> Image | None:
+    """The ideal picture on the left, the DAC's levels into 75 ohms on the right."""
+    from synccore.cli.dac import channel_bits, dac_from_option
+    from synccore.picture.dac import GAMMA_NOTE, analog_image, side_by_side
+
+    design = dac_from_option(s, dac)
+    for name, choice in design.channels.items():
+        ch = choice.best
+        mon.notes.append(f"DAC {name}: {network_text(ch)}; full scale {float(ch.levels[-1]):.3f} V "
+                         f"into {float(design.options.load_ohm):g} ohms")  # fmt: skip
+    mon.problems += [f"DAC {p}" for p in design.problems]
+    if mon.image is None:
+        return None
+    mon.notes.append("left: the codes as an ideal DAC gives them; right: " + GAMMA_NOTE)
+    mon.notes.append(CAUTIONS)
+    return side_by_side(mon.image, analog_image(mon.image, design, channel_bits(s)))
 
 
 def _monitor_range(text: str | None) -> tuple[tuple[float, float], tuple[float, float]] | None:
@@ -305,7 +338,8 @@ def _measured_clock(what: str, measured: float, planned: Fraction, f_board: Frac
         notes.append(line)
 
 
-def _show(mon: Monitor, title: str, target: Path, spec: Spec | None, *, tmds: bool = False) -> None:
+def _show(mon: Monitor, title: str, target: Path, spec: Spec | None, *, tmds: bool = False,
+          image: Image | None = None) -> None:  # fmt: skip
     """The monitor's summary table and notes, the PNG of the visible frame, the caution."""
     out = console()
     table = Table(title=f"simulated monitor: {title}", title_justify="left", show_header=False)
@@ -316,8 +350,8 @@ def _show(mon: Monitor, title: str, target: Path, spec: Spec | None, *, tmds: bo
     out.print(table)
     for note in mon.notes:
         out.print(f"note: {note}")
-    if mon.image is not None:
-        mon.image.save(target)
+    if image is not None:
+        image.save(target)
         out.print(f"wrote {target}")
     if spec is None:
         out.print(MONITOR_CAUTION, style="dim")
