@@ -210,7 +210,7 @@ def _check(opts: DacOptions, bits: dict[str, int]) -> None:
 def _choose(n: int, opts: DacOptions) -> ChannelChoice:
     """Rank the series' neighbours of the ideal values, then analyse the best few exactly."""
     nets = _weighted_candidates(n, opts) if opts.topology == "weighted" else _r2r_candidates(n, opts)
-    ranked = sorted(nets, key=lambda item: item[0])[: 4 * (RUNNERS_UP + 1)]
+    ranked = sorted(nets, key=lambda item: item[0])[: 2 * (RUNNERS_UP + 1)]
     exact = sorted((analyse("", net, opts) for _, net in ranked), key=_rank)
     return ChannelChoice(exact[0], tuple(exact[1 : RUNNERS_UP + 1]))
 
@@ -231,7 +231,7 @@ def _weighted_candidates(n: int, opts: DacOptions) -> list[tuple[tuple[float, tu
         raise DesignError(f"the pin's output resistance ({r_pin:g} Ω) is larger than the most "
                           f"significant bit's resistor should be ({ideal[-1] + r_pin:.1f} Ω)")  # fmt: skip
     near = [eseries.around(r, opts.series, 3 if n <= 5 else 2) for r in ideal]
-    codes = np.array([[c >> i & 1 for i in range(n)] for c in range(2**n)], dtype=float)
+    codes = _codes(n)
     out = []
     for combo in itertools.product(*near):
         g = 1 / (np.array([float(r) for r in combo]) + r_pin)
@@ -251,9 +251,14 @@ def _r2r_candidates(n: int, opts: DacOptions) -> list[tuple[tuple[float, tuple[f
     for ladder, leg in itertools.product(eseries.around(r, opts.series, 5),
                                          eseries.around(2 * r - r_pin, opts.series, 5)):  # fmt: skip
         net = r2r(leg, ladder, n, opts.load_ohm, opts.pin_ohm)
-        levels = np.array([float(v) for v in analyse("", net, opts).levels])
-        out.append((_float_merit(levels, fs, (ladder, leg)), net))
+        unit = np.array([float(node_voltages(net, (i,), opts.io_v)[OUT]) for i in range(n)])
+        out.append((_float_merit(_codes(n) @ unit, fs, (ladder, leg)), net))
     return out
+
+
+def _codes(n: int) -> np.ndarray:
+    """Row c holds the bits of code c (bit 0 first): levels = codes @ per-bit levels (superposition)."""
+    return np.array([[c >> i & 1 for i in range(n)] for c in range(2**n)], dtype=float)
 
 
 def _float_merit(levels: np.ndarray, fs: float, combo: tuple[Fraction, ...]
