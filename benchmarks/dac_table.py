@@ -30,8 +30,8 @@ CASES = [  # (bank V, bits per channel, topology, series)
 
 
 def main() -> None:
-    print("| bank | bits | topology | series | values (widest channel) | full scale | max abs DNL / INL (LSB) "
-          "| max pin current | bank current | time |")
+    print("| bank | bits | topology | series | values (widest channel) | full scale "
+          "| max abs DNL / INL (LSB) | max pin current | bank current | time |")
     print("|---|---|---|---|---|---|---|---|---|---|")
     for volts, bits, topology, series in CASES:
         opts = DacOptions(io_v=Fraction(volts), topology=topology, series=series)
@@ -40,7 +40,8 @@ def main() -> None:
         took = time.perf_counter() - start
         widest = max(d.channels.values(), key=lambda c: c.best.bits).best
         print(f"| {volts} V | {'-'.join(map(str, bits))} | {topology} | {series} | {network_text(widest)} "
-              f"| {float(widest.levels[-1]):.4f} V | {float(widest.worst_dnl):.3f} / {float(widest.worst_inl):.3f} "
+              f"| {float(widest.levels[-1]):.4f} V "
+              f"| {float(widest.worst_dnl):.3f} / {float(widest.worst_inl):.3f} "
               f"| {max(float(a) for a in widest.pin_current_a) * 1000:.2f} mA "
               f"| {float(d.bank_current_a) * 1000:.1f} mA | {took:.2f} s |")
 
