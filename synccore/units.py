@@ -49,6 +49,19 @@ MAX_EXPONENT = 30
 """Numbers with units are read exactly; an exponent beyond ±30 is refused, not expanded."""
 
 
+_NUMBER = re.compile(r"\s*[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE]([+-]?[0-9]+))?\s*\Z")
+
+
+def exact_number(text: str) -> Fraction | None:
+    """A decimal number's text (``25.175``, ``2.5e7``) as an exact fraction; None if it is not one,
+    is not finite, has more than 100 characters, or an exponent beyond ±30 (which would make the
+    exact value enormous to compute)."""
+    match = _NUMBER.match(text) if len(text) <= 100 else None
+    if match is None or (match.group(1) is not None and abs(int(match.group(1))) > MAX_EXPONENT):
+        return None
+    return Fraction(text.strip())
+
+
 def parse_quantity(value: object, unit: str) -> Fraction | None:
     """``3.3V``, ``3300 mV``, ``8mA``, ``2.2k`` (ohms) as an exact number in ``unit``; None if not one.
 

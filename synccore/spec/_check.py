@@ -6,7 +6,6 @@ import difflib
 import functools
 import re
 from collections.abc import Callable
-from decimal import Decimal, InvalidOperation
 from fractions import Fraction
 from typing import Any
 
@@ -15,6 +14,7 @@ from synccore.spec import _yaml as loader
 from synccore.spec._fields import Field
 from synccore.spec._names import identifier_problem
 from synccore.spec._types import MAX_PIXEL_CLOCK_HZ
+from synccore.units import exact_number
 
 _FREQUENCY = re.compile(
     r"\s*([0-9]+(?:\.[0-9]*)?(?:[eE][+-]?[0-9]+)?)\s*(hz|khz|mhz|ghz)?\s*\Z", re.IGNORECASE
@@ -30,17 +30,14 @@ def parse_frequency(value: Any) -> Fraction | None:
     if isinstance(value, (int, Fraction)):
         return Fraction(value)
     if isinstance(value, float):
-        return Fraction(Decimal(repr(value)))
+        return exact_number(repr(value))
     if isinstance(value, str):
         match = _FREQUENCY.match(value)
-        if not match:
-            return None
-        try:
-            number = Decimal(match.group(1))
-        except InvalidOperation:  # pragma: no cover - the pattern admits only numbers
+        number = exact_number(match.group(1)) if match else None
+        if match is None or number is None:
             return None
         unit = match.group(2).lower() if match.group(2) else None
-        return Fraction(number) * _UNIT[unit]
+        return number * _UNIT[unit]
     return None
 
 
@@ -60,6 +57,9 @@ def _describe(value: Any) -> str:
         return "nothing"
     return repr(value)
 
+
+SCRATCH_PREFIX = "x-"
+"""Keys starting with this are the user's own (anchors to merge with ``<<``) and are not read."""
 
 Report = Callable[[str], None]
 """Records one problem (its message) at the value being checked."""
@@ -172,6 +172,8 @@ def _check_value(f: Field, node: loader.Node, path: str, out: Collector) -> Any:
     if not isinstance(node, loader.Scalar):
         out.add(where, path, f"must be a single value, got {_describe(node)}")
         return None
+    if isinstance(node.value, loader.Refused):
+        return None  # the reader has said why
     return check(f, node.value, functools.partial(out.add, where, path))
 
 
@@ -203,6 +205,8 @@ def check_section(
     ok = True
     suggested: set[str] = set()
     for key in given:
+        if key.startswith(SCRATCH_PREFIX):
+            continue  # a place for the user's anchors (``x-porches: &p {...}``), not read
         if key not in known:
             close = difflib.get_close_matches(key, [k for k in known if k not in given], n=1)
             hint = f" (did you mean {close[0]!r}?)" if close else ""

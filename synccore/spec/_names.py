@@ -73,8 +73,15 @@ INTERNAL_NAMES = frozenset(
 _COMMON_IDENTIFIER = re.compile(r"[A-Za-z](?:_?[A-Za-z0-9])*\Z")
 
 
+MAX_NAME_CHARS = 100
+"""Longest module or port name: a core's files are named after it, plus suffixes."""
+
+
 def identifier_problem(name: str) -> str | None:
     """Why ``name`` cannot name a module, entity or port in both languages, or None if it can."""
+    if len(name) > MAX_NAME_CHARS:
+        return (f"must be at most {MAX_NAME_CHARS} characters (it names files too, and file systems "
+                "limit a file name's length)")  # fmt: skip
     if not _COMMON_IDENTIFIER.match(name):
         return (
             "must start with a letter and hold only letters, digits and single underscores "

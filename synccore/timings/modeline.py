@@ -16,11 +16,10 @@ from __future__ import annotations
 import re
 import shlex
 from dataclasses import dataclass
-from decimal import Decimal, InvalidOperation
 from fractions import Fraction
 
 from synccore.spec import Axis
-from synccore.units import fixed
+from synccore.units import exact_number, fixed
 
 _REFUSED_FLAGS = {"interlace": "interlaced", "doublescan": "double-scan"}
 _IGNORED_FLAGS = ("composite", "+csync", "-csync")
@@ -69,10 +68,9 @@ def parse(text: str) -> Modeline:
             "expected a clock in MHz and eight numbers (hdisp hsyncstart hsyncend htotal "
             f"vdisp vsyncstart vsyncend vtotal), got {len(words)} values"
         )
-    try:
-        clock_mhz = Decimal(words[0])
-    except InvalidOperation:
-        raise ModelineError(f"clock must be a number in MHz, got {words[0]!r}") from None
+    clock_mhz = exact_number(words[0])
+    if clock_mhz is None:
+        raise ModelineError(f"clock must be a finite number in MHz, got {words[0]!r}")
     if clock_mhz <= 0:
         raise ModelineError(f"clock must be above 0 MHz, got {words[0]}")
     try:

@@ -9,21 +9,25 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from synccore.errors import Problem
 from synccore.spec import Node, Spec, load_file, load_text, top_mapping, validate
 from synccore.timings.resolve import resolve
 
 
 def load(path: str | Path) -> Spec:
     """Read, resolve and validate one timing description file; :class:`SpecError` on problems."""
-    return _read(load_file(path), str(path))
+    problems: list[Problem] = []
+    return _read(load_file(path, problems), str(path), problems)
 
 
 def loads(text: str, source: str = "<string>") -> Spec:
     """The same for a timing description given as YAML text."""
-    return _read(load_text(text, source), source)
+    problems: list[Problem] = []
+    return _read(load_text(text, source, problems), source, problems)
 
 
-def _read(doc: Node, source: str) -> Spec:
+def _read(doc: Node, source: str, reading: list[Problem]) -> Spec:
+    """``reading``: what the YAML reader refused but read past (every problem is reported at once)."""
     resolved = resolve(top_mapping(doc))
     return validate(resolved.doc, source=source, origin=resolved.origin, notes=resolved.notes,
-                    fit=resolved.fit, earlier=resolved.problems)  # fmt: skip
+                    fit=resolved.fit, earlier=[*reading, *resolved.problems])  # fmt: skip

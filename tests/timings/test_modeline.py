@@ -55,7 +55,7 @@ def test_mixed_polarities() -> None:
      r"^horizontal positions must rise: 0 < display <= sync start <= sync end <= total, "
      r"got 1280 1500 1430 1650$"),
     ("fast 1280 1390 1430 1650 720 725 730 750 +hsync +vsync",
-     r"^clock must be a number in MHz, got 'fast'$"),
+     r"^clock must be a finite number in MHz, got 'fast'$"),
     ("74.25 1280 1390 1430 1650 720 725 730 750 +hsync +vsync +wobble",
      r"^unknown flag '\+wobble'$"),
 ])  # fmt: skip
