@@ -16,11 +16,17 @@ from pathlib import Path
 
 import numpy as np
 
+from synccore.errors import SpecError
+from synccore.picture import vcd_text
 from synccore.picture.run import Pins
+from synccore.spec import read_bounded
 
 ROLES = ("clk", "hsync", "vsync", "de", "red", "green", "blue")
 REQUIRED = ("clk", "hsync", "vsync")
-_UNITS = {"s": 1.0, "ms": 1e-3, "us": 1e-6, "ns": 1e-9, "ps": 1e-12, "fs": 1e-15}
+MAX_VCD_BYTES = 1 << 30
+"""Largest VCD read (1 GiB); a few frames of a display's pins are tens of megabytes."""
+PIN_BITS = {"clk": 1, "hsync": 1, "vsync": 1, "de": 1, "red": 16, "green": 16, "blue": 16}
+"""Widest signal each pin may be mapped to."""
 
 
 class VcdError(ValueError):
@@ -53,7 +59,7 @@ def _value(text: str) -> int:
     return int(bits, 2) if bits else 0
 
 
-Changes = dict[object, tuple[list[int], list[int]]]
+Changes = vcd_text.Changes
 
 
 def read(path: str | Path, mapping: dict[str, str]) -> Pins:
@@ -80,60 +86,29 @@ def _resolve(path: Path, names: dict[str, tuple[object, int]], mapping: dict[str
             why = "several signals" if hits else "no signal"
             raise VcdError(f"{path}: {why} called {name!r} (for {role})")
         wanted[role] = names[hits[0]]
+    for role, (_, bits) in wanted.items():
+        if bits > PIN_BITS[role]:
+            raise VcdError(f"{path}: {mapping[role]!r} is {bits} bits wide; {role} takes at most "
+                           f"{PIN_BITS[role]}")  # fmt: skip
     return wanted
 
 
 def _vcd(path: Path) -> tuple[float, dict[str, tuple[object, int]], Callable[[set[object]], Changes]]:
-    text = path.read_text(encoding="utf-8", errors="replace")
-    head, sep, body = text.partition("$enddefinitions")
-    if not sep:
-        raise VcdError(f"{path}: not a VCD file (no $enddefinitions)")
-    scale = 1e-9
-    m = re.search(r"\$timescale\s+([0-9]+)\s*([munpf]?s)\s+\$end", head)
-    if m:
-        scale = int(m.group(1)) * _UNITS[m.group(2)]
-    scope: list[str] = []
-    names: dict[str, tuple[object, int]] = {}
-    tokens = head.split()
-    i = 0
-    while i < len(tokens):
-        tok = tokens[i]
-        if tok == "$scope":
-            scope.append(tokens[i + 2])
-            i += 3
-        elif tok == "$upscope":
-            scope.pop()
-            i += 1
-        elif tok == "$var":
-            size, code, name = int(tokens[i + 2]), tokens[i + 3], tokens[i + 4]
-            names[".".join([*scope, name])] = (code, size)
-            i += 5
-        else:
-            i += 1
+    try:
+        data = read_bounded(path, MAX_VCD_BYTES)
+    except SpecError as err:
+        raise VcdError(str(err)) from None
+    try:
+        scale, names, start = vcd_text.parse_header(path, data)
+    except vcd_text.VcdFormatError as err:
+        raise VcdError(str(err)) from None
+    widths = {code: bits for code, bits in names.values()}
 
     def load(codes: set[object]) -> Changes:
-        changes: Changes = {c: ([], []) for c in codes}
-        now = 0
-        body_tokens = body.split()
-        j = 0
-        while j < len(body_tokens):
-            tok = body_tokens[j]
-            c0 = tok[0]
-            if c0 == "#":
-                now = int(tok[1:])
-            elif c0 in "bBrR":
-                code = body_tokens[j + 1]
-                if code in changes:
-                    changes[code][0].append(now)
-                    changes[code][1].append(_value(tok[1:]) if c0 in "bB" else int(float(tok[1:])))
-                j += 1
-            elif c0 in "01xXzZuU":
-                code = tok[1:]
-                if code in changes:
-                    changes[code][0].append(now)
-                    changes[code][1].append(1 if c0 == "1" else 0)
-            j += 1
-        return changes
+        try:
+            return vcd_text.load_changes(path, data, start, codes, widths)
+        except vcd_text.VcdFormatError as err:
+            raise VcdError(str(err)) from None
 
     return scale, names, load
 

@@ -44,14 +44,24 @@ from synccore.spec._types import (
     to_dict,
 )
 from synccore.spec._validate import top_mapping, validate
-from synccore.spec._yaml import MAX_FILE_BYTES, Located, Node, Scalar, load_file, load_text
+from synccore.spec._yaml import (
+    MAX_FILE_BYTES,
+    Located,
+    Node,
+    Refused,
+    Scalar,
+    load_file,
+    load_text,
+    read_bounded,
+)
 
 __all__ = [
     "BASE_PORTS", "FAMILY_NAMES", "FIT_FIELDS", "FORMULA_FIELDS", "FORMULA_METHODS",
     "MAX_AXIS", "MAX_FILE_BYTES", "MAX_PIXEL_CLOCK_HZ", "PIXELS_PER_CLOCK", "POLARITIES",
     "RESETS", "SCALES", "SPEC_FIELDS", "VSYNC_ALIGNS",
     "Axis", "Board", "Collector", "Color", "CoreOptions", "Field", "Fit", "Located", "Node",
-    "Scalar", "Spec", "ValueRange",
+    "Refused", "Scalar", "Spec", "ValueRange",
     "check_section", "describe_node", "field_names", "from_dict", "identifier_problem",
-    "load_file", "load_text", "parse_frequency", "to_dict", "top_mapping", "validate", "where",
+    "load_file", "load_text", "parse_frequency", "read_bounded", "to_dict", "top_mapping", "validate",
+    "where",
 ]  # fmt: skip

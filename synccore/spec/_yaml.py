@@ -227,8 +227,14 @@ def load_text(text: str, source: str = "<string>", problems: list[Problem] | Non
         mark = exc.problem_mark or exc.context_mark
         reason = exc.problem or exc.context or "invalid YAML"
         raise SpecError([Problem(_loc(source, mark), "", f"YAML syntax: {reason}")]) from None
+    except yaml.reader.ReaderError as exc:  # a character YAML does not allow, by its offset
+        before = text[: exc.position]
+        where = Location(source, before.count("\n") + 1, exc.position - (before.rfind("\n") + 1) + 1)
+        raise SpecError([Problem(where, "", f"character #x{exc.character:04x} is not allowed in YAML "
+                                            "text")]) from None  # fmt: skip
     except yaml.YAMLError as exc:  # pragma: no cover - PyYAML marks nearly everything
-        raise SpecError([Problem(Location(source, 1, 1), "", f"YAML: {exc}")]) from None
+        one_line = " ".join(str(exc).split())
+        raise SpecError([Problem(Location(source, 1, 1), "", f"YAML: {one_line}")]) from None
     documents = [d for d in documents if d is not None]
     if not documents:
         raise SpecError([Problem(Location(source, 1, 1), "", "file holds no YAML document")])
