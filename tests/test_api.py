@@ -165,7 +165,7 @@ def test_write_core(tmp_path: Path) -> None:
     spec = synccore.loads(timings.SMALL)
     written = synccore.write(spec, tmp_path / "out")
     assert _names(written) == ["small_mode.v", "small_mode.vhd"]
-    assert _names(list((tmp_path / "out").iterdir())) == _names(written)
+    assert _names(list((tmp_path / "out").iterdir())) == [".synccore-manifest.json", *_names(written)]
     assert (tmp_path / "out" / "small_mode.v").read_text() == synccore.render_verilog(spec)
     assert (tmp_path / "out" / "small_mode.vhd").read_text() == synccore.render_vhdl(spec)
 
@@ -248,13 +248,17 @@ def test_write_all_or_nothing_and_force(tmp_path: Path) -> None:
     spec = synccore.loads(timings.SMALL)
     mine = tmp_path / "small_mode.vhd"
     mine.write_text("-- my own file\n")
-    with pytest.raises(synccore.SpecError, match=r"small_mode\.vhd: exists and was not generated"):
+    with pytest.raises(synccore.SpecError, match=r"small_mode\.vhd: exists and was not written by synccore"):
         synccore.write(spec, tmp_path, testbench=True)
     assert _names(list(tmp_path.iterdir())) == ["small_mode.vhd"]  # nothing half-written
     assert mine.read_text() == "-- my own file\n"
     synccore.write(spec, tmp_path, force=True)
     assert mine.read_text() == synccore.render_vhdl(spec)
     synccore.write(spec, tmp_path)  # a file synccore generated is replaced without force
+    (tmp_path / "small_mode.v").write_text("// edited by hand\n")
+    edited = r"small_mode\.v: exists and was not written by synccore \(or was changed since\)"
+    with pytest.raises(synccore.SpecError, match=edited):
+        synccore.write(spec, tmp_path)  # ... but not once the user has edited it
 
 
 # ------------------------------------------------------------------- plan_clock
