@@ -7,7 +7,8 @@ command exits with status 2 (1 is kept for "ran, and the result is a failure").
 from __future__ import annotations
 
 import sys
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
+from pathlib import Path
 from typing import NoReturn
 
 import click
@@ -40,6 +41,34 @@ def fail(lines: str | Iterable[str], *, code: int = BAD_INPUT) -> NoReturn:
 def fail_spec(err: SpecError) -> NoReturn:
     """Every problem of ``err``, one line each (``file:line:col: field: message``), exit 2."""
     fail(str(p) for p in err.problems)
+
+
+def save(path: str | Path, data: bytes | str | Callable[[Path], None], *, force: bool,
+         option: str = "") -> Path:  # fmt: skip
+    """Write one file through the writing layer (:mod:`synccore.emit.writing`): owned files only,
+    whole or not at all; ``data`` may be a renderer that writes to a path.  Bad: one line, exit 2."""
+    from synccore.emit.writing import rendered
+
+    if callable(data):
+        data = rendered(data, Path(path).suffix)
+    return save_all({Path(path): data}, force=force, option=option)[0]
+
+
+def save_all(files: dict[Path, bytes | str], *, force: bool, option: str = "") -> list[Path]:
+    """Several files of one folder, all or none, by the same rules."""
+    from synccore.emit.writing import write_files
+
+    folders = {p.parent for p in files}
+    assert len(folders) == 1, "save_all writes into one folder"
+    notes: list[str] = []
+    raw = {p.name: d.encode("utf-8") if isinstance(d, str) else d for p, d in files.items()}
+    try:
+        write_files(raw, folders.pop(), force=force, notes=notes)
+    except SpecError as err:
+        fail(f"{option}: {p}" if option else str(p) for p in err.problems)
+    for note in notes:
+        click.echo(f"note: {note}", err=True)
+    return list(files)
 
 
 def load_spec(path: str) -> Spec:

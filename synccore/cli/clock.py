@@ -10,7 +10,6 @@ is one line on stderr, naming the option, and exit status 2.
 from __future__ import annotations
 
 import json
-import os
 import shlex
 from collections.abc import Callable
 from fractions import Fraction
@@ -22,7 +21,7 @@ from rich.console import Console
 from rich.markup import escape
 
 from synccore.api import adjusted_text, plan_clock, plan_dvi_link
-from synccore.cli._common import console, fail, fail_spec, load_spec
+from synccore.cli._common import console, fail, fail_spec, load_spec, save
 from synccore.clocking import FAMILY_KEYS
 from synccore.clocking.link import LinkPlan
 from synccore.clocking.link_report import link_dict, link_facts
@@ -176,22 +175,13 @@ def refusal(plan: ClockPlan, spec_path: str, board_clock: str | None, *,
 def write_adjusted(plan: ClockPlan, spec_path: str, target: str, board_clock: str | None,
                    force: bool) -> None:  # fmt: skip
     """Write the adjusted spec to ``target`` whole (never half), or one line and exit 2."""
-    path = Path(target)
-    if path.exists() and not force:
-        fail(f"--write: {target} exists; use --force to overwrite it")
     command = (f"synccore build {shlex.quote(target)} -o OUT --clock "
                f"{plan_options(plan, board_clock)}")  # fmt: skip
     try:
         text = adjusted_text(plan, command=command)
     except ToolError as err:
         fail(f"--write: {err}")
-    partial = path.with_name(f".{path.name}.partial")
-    try:
-        partial.write_text(text, encoding="utf-8")
-        os.replace(partial, path)
-    except OSError as err:
-        partial.unlink(missing_ok=True)
-        fail(f"--write: cannot write {target}: {err.strerror}")
+    save(target, text, force=force, option="--write")
     click.echo(f"wrote {target} (adjusted from {spec_path})", err=True)
 
 

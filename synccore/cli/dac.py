@@ -32,7 +32,7 @@ from synccore.analog import (
     realise,
 )
 from synccore.analog.report import network_text
-from synccore.cli._common import FAILED, console, fail, fail_spec, load_spec
+from synccore.cli._common import FAILED, console, fail, fail_spec, load_spec, save
 from synccore.errors import SpecError
 from synccore.spec import Spec
 
@@ -111,11 +111,13 @@ def print_design(d: DacDesign, out: Console) -> None:
 @click.option("--draw", type=click.Path(dir_okay=False), help="Draw the networks into this .svg or .png.")
 @click.option("--plot", type=click.Path(dir_okay=False),
               help="Plot level against code into this .svg or .png.")
-@click.option("--save", type=click.Path(dir_okay=False), help="Write the design file (for view --dac).")
+@click.option("--save", "save_to", type=click.Path(dir_okay=False),
+              help="Write the design file (for view --dac).")
+@click.option("--force", is_flag=True, help="Replace --draw/--plot/--save files synccore did not write.")
 def dac_command(spec: str, io: str | None, load: str | None, series: str | None, topology: str | None,
                 pin_resistance: str | None, pin_current: str | None, bank_current: str | None,
                 design_file: str | None, as_json_out: bool, draw: str | None, plot: str | None,
-                save: str | None) -> None:  # fmt: skip
+                save_to: str | None, force: bool) -> None:  # fmt: skip
     """Design (or judge) a VGA resistor DAC for SPEC's colour depth: 0.7 V into 75 Ω."""
     for option, target in (("--draw", draw), ("--plot", plot)):
         if target is not None and Path(target).suffix.lower() not in (".svg", ".png"):
@@ -124,28 +126,26 @@ def dac_command(spec: str, io: str | None, load: str | None, series: str | None,
     d = dac_for(s, design_file, {"io": io, "load": load, "series": series, "topology": topology,
                                  "pin_resistance": pin_resistance, "pin_current": pin_current,
                                  "bank_current": bank_current})  # fmt: skip
-    _write_files(d, draw, plot, save)
+    _write_files(d, draw, plot, save_to, force)
     if as_json_out:
         click.echo(json.dumps(as_json(d), indent=2))
     else:
         out = console()
         print_design(d, out)
-        for target in filter(None, (draw, plot, save)):
+        for target in filter(None, (draw, plot, save_to)):
             out.print(f"wrote {target}")
         out.print(CAUTIONS, style="dim")
     if d.problems:
         raise SystemExit(FAILED)
 
 
-def _write_files(d: DacDesign, draw: str | None, plot: str | None, save: str | None) -> None:
+def _write_files(d: DacDesign, draw: str | None, plot: str | None, design_file: str | None,
+                 force: bool) -> None:  # fmt: skip
     from synccore.picture.dac import draw_schematic, plot_levels
 
-    try:
-        if draw is not None:
-            draw_schematic(d, draw)
-        if plot is not None:
-            plot_levels(d, plot)
-        if save is not None:
-            Path(save).write_text(design_text(d), encoding="utf-8")
-    except OSError as err:
-        fail(f"cannot write {err.filename}: {err.strerror}")
+    if draw is not None:
+        save(draw, lambda path: draw_schematic(d, path), force=force, option="--draw")
+    if plot is not None:
+        save(plot, lambda path: plot_levels(d, path), force=force, option="--plot")
+    if design_file is not None:
+        save(design_file, design_text(d), force=force, option="--save")

@@ -14,7 +14,7 @@ from pathlib import Path
 
 import click
 
-from synccore.cli._common import FAILED, fail, load_spec
+from synccore.cli._common import FAILED, fail, load_spec, save_all
 from synccore.emit.edid_rom import render_vhdl_rom
 from synccore.timings import edid, edid_write
 from synccore.units import fixed
@@ -92,7 +92,7 @@ def _package_name(stem: str) -> str:
     return f"{word or 'edid'}_rom_pkg" if word[:1].isalpha() else f"edid_{word}_rom_pkg"
 
 
-def _write(specs: tuple[str, ...], out: str | None, cta: bool, name: str) -> None:
+def _write(specs: tuple[str, ...], out: str | None, cta: bool, name: str, force: bool) -> None:
     if not specs:
         fail("synccore edid --write: give at least one SPEC")
     if out is None:
@@ -109,11 +109,7 @@ def _write(specs: tuple[str, ...], out: str | None, cta: bool, name: str) -> Non
              target.with_suffix(".mem"): edid_write.readmemh(data).encode(),
              target.with_suffix(".vhd"): render_vhdl_rom(
                  data, package=_package_name(target.stem), title=title).encode()}  # fmt: skip
-    try:
-        for path, content in files.items():
-            path.write_bytes(content)
-    except OSError as exc:
-        fail(f"synccore edid --write: cannot write: {exc.strerror or exc}")
+    save_all(dict(files), force=force, option="synccore edid --write")
     click.echo(f"wrote {', '.join(str(p) for p in files)} ({len(data)} bytes)", err=True)
 
 
@@ -126,11 +122,12 @@ def _write(specs: tuple[str, ...], out: str | None, cta: bool, name: str) -> Non
               help="With --write: the binary; .hex, .mem and .vhd are written beside it.")
 @click.option("--cta", is_flag=True, help="With --write: add a CTA-861 extension (VICs).")
 @click.option("--name", default="", help="With --write: the monitor name (13 characters).")
+@click.option("--force", is_flag=True, help="With --write: replace files synccore did not write.")
 def edid_command(files: tuple[str, ...], as_json: bool, write: bool, out: str | None,
-                 cta: bool, name: str) -> None:  # fmt: skip
+                 cta: bool, name: str, force: bool) -> None:  # fmt: skip
     """Read a display's EDID (binary or hex dump), or --write one from specs."""
     if write:
-        _write(files, out, cta, name)
+        _write(files, out, cta, name, force)
         return
     if len(files) != 1:
         fail("synccore edid: give one FILE to read (or --write SPEC... -o FILE.bin)")

@@ -16,7 +16,7 @@ from typing import NoReturn
 import click
 from rich.table import Table
 
-from synccore.cli._common import FAILED, console, fail
+from synccore.cli._common import FAILED, console, fail, save
 from synccore.cli.edid import load_edid
 from synccore.spec import Axis, CoreOptions, Spec, parse_frequency
 from synccore.timings import formulas, modeline, modes
@@ -193,8 +193,5 @@ def _put_out(text: str, out: str, force: bool) -> None:
     if out == "-":
         click.echo(text, nl=False)
         return
-    path = Path(out)
-    if path.exists() and not force:
-        _bad(f"{out} exists; use --force to overwrite it")
-    path.write_text(text, encoding="utf-8")
+    save(out, text, force=force, option="-o")
     click.echo(f"wrote {out}", err=True)

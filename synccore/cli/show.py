@@ -10,7 +10,7 @@ import click
 from rich.console import Console
 from rich.table import Table
 
-from synccore.cli._common import FAILED, console, fail, load_spec
+from synccore.cli._common import FAILED, console, fail, load_spec, save
 from synccore.cli.edid import load_edid
 from synccore.model import Timing
 from synccore.model.report import figures, options, timing_table
@@ -48,7 +48,8 @@ def print_summary(spec: Spec, console: Console) -> None:
               help="Also draw the horizontal and vertical timing to scale into this .svg or .png.")
 @click.option("--edid", "edid_file", type=click.Path(dir_okay=False), metavar="FILE",
               help="Also judge the timing against a display's EDID; exit 1 if it would refuse.")
-def show(spec: str, as_modeline: bool, diagram: str | None, edid_file: str | None) -> None:
+@click.option("--force", is_flag=True, help="Replace a --diagram file synccore did not write.")
+def show(spec: str, as_modeline: bool, diagram: str | None, edid_file: str | None, force: bool) -> None:
     """Validate SPEC and print its timing summary; writes nothing unless --diagram is given."""
     s = load_spec(spec)
     verdict = None
@@ -59,7 +60,10 @@ def show(spec: str, as_modeline: bool, diagram: str | None, edid_file: str | Non
 
         if Path(diagram).suffix.lower() not in (".svg", ".png"):
             fail(f"--diagram must name a .svg or .png file, got {diagram!r}")
-        draw(s, diagram)
+        def render(path: Path) -> None:
+            draw(s, path)
+
+        save(diagram, render, force=force, option="--diagram")
     if as_modeline:
         click.echo(format_line(s.name, s.pixel_clock_hz, s.horizontal, s.vertical))
         return

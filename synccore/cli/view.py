@@ -12,7 +12,7 @@ import click
 from rich.table import Table
 
 from synccore.analog import CAUTIONS, network_text
-from synccore.cli._common import FAILED, console, fail, fail_spec, load_spec
+from synccore.cli._common import FAILED, console, fail, fail_spec, load_spec, save
 from synccore.cli.clock import ACCEPT_OPTION, board_options, build_plan, link_plan_for, refusal
 from synccore.errors import SpecError
 from synccore.spec import Spec
@@ -73,6 +73,7 @@ VCD_HINT = ("give the SPEC too (synccore view SPEC --vcd ...) to check that the 
 @click.option("--edid", "edid_file", type=click.Path(dir_okay=False), metavar="FILE",
               help="Accept or refuse the signal as the display whose EDID this is would: its "
                    "listed timings, range limits and maximum pixel clock (needs SPEC).")
+@click.option("--force", is_flag=True, help="Replace an -o file synccore did not write.")
 @click.option("--dac", metavar="FILE|LIST", default=None,
               help="Also show the picture as a resistor DAC would give it into 75 ohms: a design "
                    "file (synccore dac --save) or settings inline, e.g. io=3.3V,series=E24 (needs SPEC).")
@@ -80,7 +81,7 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
                  monitor_range: str | None, vcd: str | None, mapping: str | None,
                  work_dir: str | None, link: str | None, whole_board: bool, board_clock: str | None,
                  family: str | None, no_pll: bool, accept_clock_error: bool,
-                 edid_file: str | None, dac: str | None) -> None:  # fmt: skip
+                 edid_file: str | None, force: bool, dac: str | None) -> None:  # fmt: skip
     """Simulate SPEC's first-light design and look at it as a monitor would: rates, mode, PNG.
 
     With ``--vcd`` the pins come from your own simulation; SPEC, when given too, is the
@@ -96,7 +97,7 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     clock_problems: list[str] = []
     _check_options(engine, vcd, link, whole_board, bool(board_clock or family or no_pll
                                                         or accept_clock_error))  # fmt: skip
-    _need_spec(spec, edid_file, dac)
+    _need_spec(spec, edid_file, dac, out_png)
     if whole_board:
         if spec is None:
             raise click.UsageError("--board needs a SPEC")
@@ -130,10 +131,9 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
         mon.notes.append(VCD_HINT)
     if edid_file is not None and s is not None:
         _judge_edid(mon, s, pins, edid_file)
-    image = mon.image
-    if dac is not None and s is not None:
-        image = _through_dac(mon, s, dac)
-    _show(mon, title, Path(out_png or f"{name}_view.png"), s, tmds=link is not None, image=image)
+    image = _through_dac(mon, s, dac) if dac is not None and s is not None else mon.image
+    target = Path(out_png or f"{name}_view.png")
+    _show(mon, title, target, s, tmds=link is not None, image=image, force=force)
     if mon.problems:
         fail((f"PROBLEM {problem}" for problem in mon.problems), code=FAILED)
 
@@ -166,7 +166,9 @@ def _judge_edid(mon: Monitor, s: Spec, pins: Pins, edid_file: str) -> None:
     (mon.notes if verdict.accepted else mon.problems).append(line)
 
 
-def _need_spec(spec: str | None, edid_file: str | None, dac: str | None) -> None:
+def _need_spec(spec: str | None, edid_file: str | None, dac: str | None, out_png: str | None) -> None:
+    if out_png is not None and Path(out_png).suffix.lower() != ".png":
+        fail(f"--out must name a .png file, got {out_png!r}")
     if edid_file is not None and spec is None:
         fail("--edid needs a SPEC: the timing the display judges")
     if dac is not None and spec is None:
@@ -339,7 +341,7 @@ def _measured_clock(what: str, measured: float, planned: Fraction, f_board: Frac
 
 
 def _show(mon: Monitor, title: str, target: Path, spec: Spec | None, *, tmds: bool = False,
-          image: Image | None = None) -> None:  # fmt: skip
+          image: Image | None = None, force: bool = False) -> None:  # fmt: skip
     """The monitor's summary table and notes, the PNG of the visible frame, the caution."""
     out = console()
     table = Table(title=f"simulated monitor: {title}", title_justify="left", show_header=False)
@@ -351,7 +353,7 @@ def _show(mon: Monitor, title: str, target: Path, spec: Spec | None, *, tmds: bo
     for note in mon.notes:
         out.print(f"note: {note}")
     if image is not None:
-        image.save(target)
+        save(target, image.save, force=force, option="--out")
         out.print(f"wrote {target}")
     if spec is None:
         out.print(MONITOR_CAUTION, style="dim")

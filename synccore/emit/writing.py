@@ -93,6 +93,7 @@ def recover(folder: Path) -> list[str]:
             _put_atomically(folder / MANIFEST, _json({"files": manifest}))
             notes.append(f"{folder}: an earlier write was interrupted while replacing its files; "
                          f"completed it ({len(files)} files)")  # fmt: skip
+            shutil.rmtree(staging, ignore_errors=True)
         (folder / JOURNAL).unlink(missing_ok=True)
     for tmp in (folder / (JOURNAL + ".tmp"), folder / (MANIFEST + ".tmp")):
         tmp.unlink(missing_ok=True)
@@ -143,9 +144,11 @@ def write_files(files: Mapping[str, bytes], folder: str | Path, *, force: bool =
         for note in found:
             print(f"note: {note}", file=sys.stderr)
     _check_targets(out, list(files), force)
-    staging: Path | None = None
     try:
         staging = Path(tempfile.mkdtemp(prefix=STAGING_PREFIX, dir=out))
+    except OSError as exc:
+        raise _fail(f"{out}: cannot write here: {exc.strerror}") from None
+    try:
         for name, data in files.items():
             with open(staging / name, "wb") as handle:  # noqa: PTH123
                 handle.write(data)
@@ -161,7 +164,7 @@ def write_files(files: Mapping[str, bytes], folder: str | Path, *, force: bool =
         what = Path(exc.filename or "").name or "files"
         raise _fail(f"{out}: cannot write {what}: {exc.strerror}") from None
     finally:
-        if staging is not None and not (out / JOURNAL).exists():
+        if not (out / JOURNAL).exists():
             shutil.rmtree(staging, ignore_errors=True)
     return [out / name for name in files]
 

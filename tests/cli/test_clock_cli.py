@@ -192,8 +192,8 @@ def test_build_clock_writes_wrapper_and_constraints(tmp_path: Path) -> None:
     out = tmp_path / "out"
     code, _, err = run("build", spec, "-o", str(out), "--clock")
     assert code == 0, err
-    assert sorted(p.name for p in out.iterdir()) == [
-        "vga.v", "vga.vhd", "vga_clock.sdc", "vga_clock.v", "vga_clock.vhd"]  # fmt: skip
+    assert sorted(p.name for p in out.iterdir()) == [".synccore-manifest.json", "vga.v", "vga.vhd",
+                                                     "vga_clock.sdc", "vga_clock.v", "vga_clock.vhd"]
     sdc = (out / "vga_clock.sdc").read_text()
     assert "create_clock -name board_clk -period 83.333 [get_ports {clk_in}]" in sdc
     assert re.search(r"^create_clock -name core_clk -period [0-9.]+ \[get_nets \{clk\}\]$", sdc,
@@ -385,7 +385,8 @@ def test_write_refuses_an_existing_file_and_a_plan_with_nothing_to_adjust(tmp_pa
     there.write_text("# mine\n")
     code, out, err = run("clock", spec, "--write", str(there))
     assert code == 2 and out == "" and there.read_text() == "# mine\n"
-    assert err == f"--write: {there} exists; use --force to overwrite it\n"
+    assert err == (f"--write: {there}: exists and was not written by synccore (or was changed since); "
+                   "pass --force to overwrite it\n")
     code, _, err = run("clock", spec, "--write", str(there), "--force")
     assert code == 0 and there.read_text().startswith("# Timing description written by")
     # 640x480 from 12 MHz on iCE40 is within tolerance (test_within_tolerance_offers_no_adjustment)

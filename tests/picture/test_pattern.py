@@ -174,7 +174,7 @@ def test_build_pattern_cli(tmp_path: Path, write_spec) -> None:  # type: ignore[
     result = CliRunner().invoke(main, ["build", str(spec), "-o", str(tmp_path / "out"),
                                        "--pattern", "grid"])  # fmt: skip
     assert result.exit_code == 0, result.output
-    names = sorted(p.name for p in (tmp_path / "out").iterdir())
+    names = sorted(p.name for p in (tmp_path / "out").iterdir() if not p.name.startswith("."))
     assert names == ["dmt_640x480.v", "dmt_640x480.vhd", "dmt_640x480_pattern.v",
                      "dmt_640x480_pattern.vhd", "dmt_640x480_top.v", "dmt_640x480_top.vhd"]  # fmt: skip
     tiny = write_spec(timings.TINY, "tiny.yaml")
