@@ -200,7 +200,10 @@ def test_new_output_passes_show(tmp_path) -> None:
     r = runner.invoke(main, ["show", str(out)])
     assert r.exit_code == 0 and "74.250 MHz" in r.output
     r = runner.invoke(main, ["new", "1280x720@60", "-o", str(out)])
-    assert r.exit_code == 2 and "exists; use --force" in r.stderr
+    assert r.exit_code == 0  # synccore's own file, unchanged: replaced
+    out.write_text(out.read_text() + "# my edit\n")
+    r = runner.invoke(main, ["new", "1280x720@60", "-o", str(out)])
+    assert r.exit_code == 2 and "was not written by synccore (or was changed since); pass --force" in r.stderr
 
 
 def test_new_to_stdout() -> None:
