@@ -109,6 +109,10 @@ def _check_cross(
         if axis.total > MAX_AXIS:
             out.add(where(doc, label), label,
                     f"total of {axis.total} {unit} is more than {MAX_AXIS}")  # fmt: skip
+        if 2 * axis.sync >= axis.total:  # a monitor reads the shorter level as the pulse (common practice)
+            out.add(where(doc, label, "sync"), f"{label}.sync",
+                    f"must be less than half the total ({axis.total} {unit}): a pulse of {axis.sync} "
+                    "cannot be told from its inverse, got " + str(axis.sync))  # fmt: skip
     n = core.pixels_per_clock
     if n > 1:
         for key in ("active", "front_porch", "sync", "back_porch"):

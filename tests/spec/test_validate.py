@@ -231,3 +231,13 @@ def test_empty_and_multi_document_files() -> None:
 def test_missing_file() -> None:
     with pytest.raises(SpecError, match=r"^nope\.yaml: cannot read: No such file"):
         synccore.load("nope.yaml")
+
+
+def test_sync_of_half_the_total_is_refused() -> None:
+    """Found by the differential campaign (tests/verification/test_differential.py): a raster of
+    2 x 2 with one-line syncs measures as the opposite polarity; a monitor takes the shorter level
+    as the pulse (common practice), so a pulse of half the total or more is refused."""
+    text = GOOD.replace("vertical:   {active: 480, front_porch: 13, sync: 3,   back_porch: 29",
+                        "vertical:   {active: 1, front_porch: 0, sync: 1,   back_porch: 0")
+    assert only(text) == ("panel.yaml:4:47: vertical.sync: must be less than half the total (2 lines): "
+                          "a pulse of 1 cannot be told from its inverse, got 1")
