@@ -160,3 +160,6 @@ def _check_interlace(doc: loader.Located, h: Axis, v: Axis, core: CoreOptions,
     if core.scale > 1:
         out.add(where(doc, "core", "scale"), "core.scale",
                 f"interlaced cores have no scale yet: must be 1, got {core.scale}")
+    if v.active < 2:
+        out.add(where(doc, "vertical", "active"), "vertical.active",
+                f"interlaced: must be at least 2 (a field of one row), got {v.active}")
