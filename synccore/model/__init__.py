@@ -5,12 +5,14 @@ conventions the benches, the measurement and the Amaranth engine share.
 """
 
 from synccore.model.contract import (
+    FIELD_MONITOR,
     LFSR_SEED,
     MONITOR_FIELDS,
     RESET_CYCLES,
     Event,
     ResetPort,
     decode,
+    monitor_fields,
     parse_events,
     reset_port,
     stop_count,
@@ -18,6 +20,7 @@ from synccore.model.contract import (
 from synccore.model.timing import Outputs, Timing, bits_for, timing
 
 __all__ = [
+    "FIELD_MONITOR",
     "LFSR_SEED",
     "MONITOR_FIELDS",
     "RESET_CYCLES",
@@ -27,6 +30,7 @@ __all__ = [
     "Timing",
     "bits_for",
     "decode",
+    "monitor_fields",
     "parse_events",
     "reset_port",
     "stop_count",
