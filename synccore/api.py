@@ -114,7 +114,8 @@ def write(
     synccore generated it, or with ``force=True``.
 
     Raises :class:`SpecError` with every problem when the spec cannot have what was asked
-    (an interlaced spec: no test benches or pattern yet; a minimum active area for the pattern; ``core.clock_enable`` for the clock-enable route
+    (an interlaced spec: no test benches or pattern yet; a minimum active area for the
+    pattern; ``core.clock_enable`` for the clock-enable route
     and iCE40's link) or a file may not be replaced; :class:`ToolError` for a plan with no
     setting, or refused as above; ``ValueError`` for an unknown pattern or a plan made for
     another spec.  Nothing is written when anything is raised.
