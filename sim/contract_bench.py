@@ -25,9 +25,12 @@ from synccore.model import RESET_CYCLES, Outputs, Timing, reset_port
 from synccore.spec import from_dict
 
 
-def _read(dut, prefix: str) -> Outputs:
+def _read(dut, prefix: str, interlaced: bool) -> Outputs:
     values = {}
     for f in fields(Outputs):
+        if f.name == "field" and not interlaced:  # the port exists on interlaced cores only
+            values[f.name] = 0
+            continue
         handle = getattr(dut, prefix + f.name)
         values[f.name] = int(handle.value)
     return Outputs(**values)
@@ -55,7 +58,7 @@ async def port_contract(dut):
     for _ in range(RESET_CYCLES):
         await RisingEdge(clk)
         await ReadOnly()
-        got = _read(dut, p)
+        got = _read(dut, p, spec.interlaced)
         assert got == t.reset_outputs(), f"in reset: got {got}, want {t.reset_outputs()}"
 
     advanced = 0
@@ -72,7 +75,7 @@ async def port_contract(dut):
         if enable:
             advanced += 1
         want = t.outputs_at(advanced - 1)
-        got = _read(dut, p)
+        got = _read(dut, p, spec.interlaced)
         if got != want:
             diff = {
                 f.name: (getattr(got, f.name), getattr(want, f.name))

@@ -114,12 +114,13 @@ def write(
     synccore generated it, or with ``force=True``.
 
     Raises :class:`SpecError` with every problem when the spec cannot have what was asked
-    (a minimum active area for the pattern; ``core.clock_enable`` for the clock-enable route
+    (an interlaced spec: no test benches or pattern yet; a minimum active area for the
+    pattern; ``core.clock_enable`` for the clock-enable route
     and iCE40's link) or a file may not be replaced; :class:`ToolError` for a plan with no
     setting, or refused as above; ``ValueError`` for an unknown pattern or a plan made for
     another spec.  Nothing is written when anything is raised.
     """
-    _check_request(spec, pattern, clock, accept_clock_error)
+    _check_request(spec, testbench, pattern, clock, accept_clock_error)
     if link is not None:
         _check_link(spec, pattern, clock, link, accept_clock_error, accept_io_limit)
     artifacts = core_artifacts(spec)
@@ -152,10 +153,15 @@ def _check_link(spec: Spec, pattern: str | None, clock: ClockPlan | None, link: 
         raise ToolError(why)
 
 
-def _check_request(spec: Spec, pattern: str | None, clock: ClockPlan | None,
+def _check_request(spec: Spec, testbench: bool, pattern: str | None, clock: ClockPlan | None,
                    accept_clock_error: bool) -> None:  # fmt: skip
     """Raise what :func:`write` documents when ``spec`` cannot have the files asked for."""
     problems: list[Problem] = []
+    if spec.interlaced and (testbench or pattern is not None):
+        what = "the stand-alone test benches" if testbench else "the test-pattern design"
+        problems.append(Problem(spec.location("interlaced"), "interlaced",
+                                f"{what} are progressive only so far: verify an interlaced "
+                                "core with synccore verify, got true"))  # fmt: skip
     if pattern is not None:
         if pattern not in PATTERNS:
             raise ValueError(f"unknown pattern {pattern!r}; choose from {', '.join(PATTERNS)}")

@@ -20,12 +20,14 @@ def spec_text(
     v: tuple[int, int, int, int, str],
     core: dict[str, object] | None = None,
     prefix: str | None = None,
+    interlaced: bool = False,
 ) -> str:
     lines = [
         f"name: {name}",
         f"pixel_clock_hz: {clock}",
         f"horizontal: {_axis(h)}",
         f"vertical: {_axis(v)}",
+        *(["interlaced: true"] if interlaced else []),
     ]
     if core:
         lines.append("core:")
@@ -71,3 +73,17 @@ SCALED = spec_text("scaled_mode", "5 MHz", (24, 3, 4, 5, "negative"), (8, 2, 2, 
                    core={"scale": 2})  # fmt: skip
 SCALED_PPC = spec_text("scaled_ppc", "10 MHz", (32, 4, 4, 8, "positive"), (8, 1, 1, 2, "negative"),
                        core={"pixels_per_clock": 2, "scale": 4, "clock_enable": True})  # fmt: skip
+# CTA-861, VIC 5 (1920x1080i60): 74.25 MHz, 1920 88 44 148 / per field 540 2 5 15, +/+,
+# 1125 lines per frame (CTA-861-G Table 1, from memory).
+CTA_1080I = spec_text("cta_1080i", "74.25 MHz", (1920, 88, 44, 148, "positive"),
+                      (540, 2, 5, 15, "positive"), interlaced=True)  # fmt: skip
+# Made up: a small interlaced raster, vsync column + half a line wraps into the next line.
+SMALL_INTERLACED = spec_text("small_il", "5 MHz", (20, 3, 4, 5, "negative"),
+                             (6, 1, 2, 2, "positive"), interlaced=True)  # fmt: skip
+# Made up: small interlaced raster with pixels per clock, clock enable, vsync at line start,
+# and the shortest back porch (field 0's vsync ends on its last line).
+SMALL_INTERLACED_OPTS = spec_text("small_il_opts", "10 MHz", (16, 4, 4, 8, "positive"),
+                                  (5, 1, 2, 1, "negative"),
+                                  core={"pixels_per_clock": 2, "clock_enable": True,
+                                        "reset": "async_low", "vsync_align": "line"},
+                                  prefix="tv_", interlaced=True)  # fmt: skip

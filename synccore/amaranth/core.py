@@ -18,12 +18,12 @@ from __future__ import annotations
 from collections.abc import Callable
 from pathlib import Path
 
-from amaranth.hdl import Array, Cat, Const, Elaboratable, Module, Signal
+from amaranth.hdl import Array, Cat, Const, Elaboratable, Module, Mux, Signal
 from amaranth.lib import wiring
 from amaranth.lib.wiring import In, Out
 from amaranth.sim import Simulator
 
-from synccore.model import LFSR_SEED, MONITOR_FIELDS, Event, Timing, decode, stop_count
+from synccore.model import LFSR_SEED, Event, Timing, decode, monitor_fields, stop_count
 from synccore.spec import Spec
 
 
@@ -44,6 +44,8 @@ class SyncCore(wiring.Component):  # type: ignore[misc]
             "line_start": Out(1, init=r.line_start),
             "frame_start": Out(1, init=r.frame_start),
         }
+        if spec.interlaced:
+            members["field"] = Out(1, init=r.field)
         if spec.core.clock_enable:
             members["ce"] = In(1)
         super().__init__(members)
@@ -60,43 +62,67 @@ class SyncCore(wiring.Component):  # type: ignore[misc]
         on_h, on_v = t.hsync_active_level, t.vsync_active_level
         off_h, off_v = t.hsync_inactive_level, t.vsync_inactive_level
 
+        fld = Signal()  # interlaced: the field of h_pos/v_pos
         with m.If(advance):
-            for h, v in ((h_pos, v_pos), (h_lead, v_lead)):
-                with m.If(h == t.h_last):
-                    m.d.sync += h.eq(0)
-                    with m.If(v == t.v_last):
-                        m.d.sync += v.eq(0)
+            if t.interlaced:  # no lead (refused): x/y come from h_pos/v_pos
+                self._step_fields(m, h_pos, v_pos, fld)
+                h_lead, v_lead = h_pos, v_pos
+            else:
+                for h, v in ((h_pos, v_pos), (h_lead, v_lead)):
+                    with m.If(h == t.h_last):
+                        m.d.sync += h.eq(0)
+                        with m.If(v == t.v_last):
+                            m.d.sync += v.eq(0)
+                        with m.Else():
+                            m.d.sync += v.eq(v + 1)
                     with m.Else():
-                        m.d.sync += v.eq(v + 1)
-                with m.Else():
-                    m.d.sync += h.eq(h + 1)
+                        m.d.sync += h.eq(h + 1)
 
             m.d.sync += [
                 self.de.eq((h_pos < t.h_active) & (v_pos < t.v_active)),
                 self.hblank.eq(h_pos >= t.h_active),
                 self.vblank.eq(v_pos >= t.v_active),
                 self.line_start.eq((h_pos == 0) & (v_pos < t.v_active)),
-                self.frame_start.eq((h_pos == 0) & (v_pos == 0)),
+                self.frame_start.eq((h_pos == 0) & (v_pos == 0) & ~fld),
             ]
+            if t.interlaced:
+                m.d.sync += self.field.eq(fld)
             # Syncs change only at their edges, so a pulse is never cut short.
             with m.If(h_pos == t.h_sync_start):
                 m.d.sync += self.hsync.eq(on_h)
             with m.Elif(h_pos == t.h_sync_end):
                 m.d.sync += self.hsync.eq(off_h)
-            with m.If(h_pos == t.v_sync_at_h):
-                with m.If(v_pos == t.v_sync_start):
-                    m.d.sync += self.vsync.eq(on_v)
-                with m.Elif(v_pos == t.v_sync_end):
-                    m.d.sync += self.vsync.eq(off_v)
+            for f in range(t.fields):  # field 0's vsync half a line late when interlaced
+                line, column = t.vsync_at(f)
+                in_field = (fld == f) if t.interlaced else Const(1)
+                with m.If(in_field & (h_pos == column)):
+                    with m.If(v_pos == line):
+                        m.d.sync += self.vsync.eq(on_v)
+                    with m.Elif(v_pos == (line + t.spec.vertical.sync) % t.field_lines(f)):
+                        m.d.sync += self.vsync.eq(off_v)
             with m.If(h_lead < t.h_active):
                 m.d.sync += self.x.eq((h_lead * t.ppc) >> t.scale_shift)
             with m.Else():
                 m.d.sync += self.x.eq(0)
             with m.If(v_lead < t.v_active):
-                m.d.sync += self.y.eq(v_lead >> t.scale_shift)
+                row = Cat(fld, v_lead) if t.interlaced else v_lead
+                m.d.sync += self.y.eq(row >> t.scale_shift)
             with m.Else():
                 m.d.sync += self.y.eq(0)
         return m
+
+    def _step_fields(self, m: Module, h_pos: Signal, v_pos: Signal, fld: Signal) -> None:
+        """Interlaced: step the position through field 0 (one line longer), then field 1."""
+        t = self.timing
+        last = Mux(fld, t.field_lines(1) - 1, t.field_lines(0) - 1)
+        with m.If(h_pos == t.h_last):
+            m.d.sync += h_pos.eq(0)
+            with m.If(v_pos == last):
+                m.d.sync += [v_pos.eq(0), fld.eq(~fld)]
+            with m.Else():
+                m.d.sync += v_pos.eq(v_pos + 1)
+        with m.Else():
+            m.d.sync += h_pos.eq(h_pos + 1)
 
 
 class _Harness(Elaboratable):  # type: ignore[misc]
@@ -105,7 +131,8 @@ class _Harness(Elaboratable):  # type: ignore[misc]
     def __init__(self, spec: Spec) -> None:
         self.core = SyncCore(spec)
         self.spec = spec
-        self.mon = Signal(sum(bits for _, bits in MONITOR_FIELDS))
+        self.fields = monitor_fields(spec.interlaced)
+        self.mon = Signal(sum(bits for _, bits in self.fields))
 
     def elaborate(self, platform: object) -> Module:
         m = Module()
@@ -158,8 +185,9 @@ class _Harness(Elaboratable):  # type: ignore[misc]
             "line_start": core.line_start, "x": x_d, "y": y_d,
             "x_last": x_last, "step_faults": step_faults, "line_starts": line_starts,
             "frame_starts": frame_starts,
+            **({"field": core.field} if self.spec.interlaced else {}),
         }  # fmt: skip
-        m.d.comb += self.mon.eq(Cat(*(fields[name][:bits] for name, bits in MONITOR_FIELDS)))
+        m.d.comb += self.mon.eq(Cat(*(fields[name][:bits] for name, bits in self.fields)))
         return m
 
 
@@ -197,4 +225,4 @@ def run_builtin(
             sim.run()
     else:
         sim.run()
-    return [decode(w) for w in words]
+    return [decode(w, interlaced=spec.interlaced) for w in words]

@@ -194,7 +194,7 @@ def suggest_modes(spec: Spec, limit: Fraction, count: int = SUGGESTIONS) -> tupl
     """
     w, h = spec.horizontal.active, spec.vertical.active
     refresh = Timing(spec).refresh_hz
-    modes = [m for m in library() if _fits(m, limit)]
+    modes = [m for m in library() if _fits(m, limit) and not m.interlaced]
     same = sorted((m for m in modes if (m.horizontal.active, m.vertical.active) == (w, h)
                    and m.refresh_hz < refresh), key=lambda m: -m.refresh_hz)  # fmt: skip
     largest = sorted(modes, key=lambda m: (-m.horizontal.active * m.vertical.active,

@@ -5,19 +5,23 @@ conventions the benches, the measurement and the Amaranth engine share.
 """
 
 from synccore.model.contract import (
+    FIELD_MONITOR,
     LFSR_SEED,
     MONITOR_FIELDS,
     RESET_CYCLES,
     Event,
     ResetPort,
     decode,
+    monitor_fields,
     parse_events,
     reset_port,
     stop_count,
 )
-from synccore.model.timing import Outputs, Timing, bits_for, timing
+from synccore.model.fields import bits_for
+from synccore.model.timing import Outputs, Timing, timing
 
 __all__ = [
+    "FIELD_MONITOR",
     "LFSR_SEED",
     "MONITOR_FIELDS",
     "RESET_CYCLES",
@@ -27,6 +31,7 @@ __all__ = [
     "Timing",
     "bits_for",
     "decode",
+    "monitor_fields",
     "parse_events",
     "reset_port",
     "stop_count",

@@ -72,6 +72,14 @@ MONITOR_FIELDS: tuple[tuple[str, int], ...] = (
     ("frame_starts", 16),
 )
 
+FIELD_MONITOR: tuple[str, int] = ("field", 1)
+"""The monitored value an interlaced core adds at the end of an event line: its field port."""
+
+
+def monitor_fields(interlaced: bool) -> tuple[tuple[str, int], ...]:
+    """The monitored values of a core's events: :data:`MONITOR_FIELDS`, and the field when interlaced."""
+    return MONITOR_FIELDS + ((FIELD_MONITOR,) if interlaced else ())
+
 
 @dataclass(frozen=True)
 class Event:
@@ -94,23 +102,25 @@ class Event:
     step_faults: int
     line_starts: int
     frame_starts: int
+    field: int = 0  # the field port of an interlaced core; 0 for a progressive one
 
 
 def parse_events(text: str) -> list[Event]:
     """Events from a harness's event file: one line of integers per event, in field order."""
-    names = [name for name, _ in MONITOR_FIELDS]
+    lengths = {len(f): [name for name, _ in f] for f in (monitor_fields(False), monitor_fields(True))}
     out = []
     for line in text.splitlines():
         values = [int(v) for v in line.split()]
-        if len(values) == len(names):
+        names = lengths.get(len(values))
+        if names:
             out.append(Event(**dict(zip(names, values, strict=True))))
     return out
 
 
-def decode(word: int) -> Event:
+def decode(word: int, *, interlaced: bool = False) -> Event:
     """Unpack one monitor vector read from the harness."""
     values = {}
-    for name, bits in MONITOR_FIELDS:
+    for name, bits in monitor_fields(interlaced):
         values[name] = word & ((1 << bits) - 1)
         word >>= bits
     return Event(**values)

@@ -13,6 +13,8 @@ of a frame: position ``q`` is column ``q mod H`` of line ``(q div H) mod V``
 advancing clock edge since reset; during reset and before the first advance
 they show the reset values (de=0, syncs inactive, blanks high, x=y=0,
 strobes low).
+
+Interlace: see :mod:`synccore.model.fields`.
 """
 
 from __future__ import annotations
@@ -21,6 +23,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import TYPE_CHECKING, overload
 
+from synccore.model.fields import FieldRules, bits_for
 from synccore.spec import Spec
 
 if TYPE_CHECKING:
@@ -30,11 +33,6 @@ if TYPE_CHECKING:
     Cycles = NDArray[np.int64]
     """Many positions or columns at once: the same rules, applied element by element."""
     Flags = NDArray[np.bool_]
-
-
-def bits_for(max_value: int) -> int:
-    """Width of an unsigned register that holds ``0..max_value``; at least 1."""
-    return max(1, int(max_value).bit_length())
 
 
 @dataclass(frozen=True)
@@ -50,10 +48,11 @@ class Outputs:
     y: int
     line_start: int
     frame_start: int
+    field: int = 0  # 0 on every cycle of a progressive timing
 
 
 @dataclass(frozen=True)
-class Timing:
+class Timing(FieldRules):
     """All numbers derived from a spec; horizontal counts are in clock cycles."""
 
     spec: Spec
@@ -152,7 +151,8 @@ class Timing:
 
     @property
     def frame_cycles(self) -> int:
-        return self.h_total * self.v_total
+        """Cycles per frame (both fields when interlaced)."""
+        return self.h_total * self.frame_lines
 
     def sync_span(self, axis: str) -> tuple[int, int]:
         """Where the sync pulse of ``axis`` lies, in the spec's units, counted from the first active one.
@@ -193,7 +193,8 @@ class Timing:
 
     @property
     def v_width(self) -> int:
-        return bits_for(self.v_total - 1)
+        """Bits of the line counter: it counts up to ``v_total`` in field 0 of an interlaced timing."""
+        return bits_for(self.field_lines(0) - 1)
 
     @property
     def scale_shift(self) -> int:
@@ -206,7 +207,7 @@ class Timing:
 
     @property
     def y_width(self) -> int:
-        return bits_for((self.v_active - 1) >> self.scale_shift)
+        return bits_for((self.frame_rows - 1) >> self.scale_shift)
 
     @property
     def x_shift(self) -> int:
@@ -292,7 +293,13 @@ class Timing:
 
     @property
     def refresh_hz(self) -> Fraction:
-        return self.line_rate_hz / self.v_total
+        """Vertical rate: frames per second, or fields per second when interlaced."""
+        return self.line_rate_hz * self.fields / self.frame_lines
+
+    @property
+    def frame_rate_hz(self) -> Fraction:
+        """Whole frames per second (half the field rate when interlaced)."""
+        return self.line_rate_hz / self.frame_lines
 
     @property
     def blanking_share(self) -> Fraction:
@@ -310,6 +317,7 @@ class Timing:
             return self.reset_outputs()
         h, v = self.position(q)
         hl, vl = self.lead_position(q)
+        f = self.field_of(q)
         active_h, active_v = h < self.h_active, v < self.v_active
         return Outputs(
             hsync=self.hsync_active_level if self.in_hsync(h) else self.hsync_inactive_level,
@@ -318,9 +326,10 @@ class Timing:
             hblank=int(not active_h),
             vblank=int(not active_v),
             x=((hl * self.ppc) >> self.scale_shift) if hl < self.h_active else 0,
-            y=(vl >> self.scale_shift) if vl < self.v_active else 0,
+            y=((vl * self.fields + f) >> self.scale_shift) if vl < self.v_active else 0,
             line_start=int(h == 0 and active_v),
-            frame_start=int(h == 0 and v == 0),
+            frame_start=int(h == 0 and v == 0 and f == 0),
+            field=f,
         )
 
     def reset_outputs(self) -> Outputs:
@@ -342,8 +351,15 @@ class Timing:
     @overload
     def position(self, q: Cycles) -> tuple[Cycles, Cycles]: ...
     def position(self, q: int | Cycles) -> tuple[int | Cycles, int | Cycles]:
-        """(column in cycles, line) of position ``q``: ``q`` cycles after a frame's first active pixel."""
-        return q % self.h_total, (q // self.h_total) % self.v_total
+        """(column in cycles, line) of position ``q``: ``q`` cycles after a frame's first active pixel.
+
+        Interlaced: the line within its field (:meth:`field_of` says which).
+        """
+        if not self.interlaced:
+            return q % self.h_total, (q // self.h_total) % self.v_total
+        line = (q // self.h_total) % self.frame_lines
+        second = line >= self.field_lines(0)
+        return q % self.h_total, line - second * self.field_lines(0)
 
     @overload
     def lead_position(self, q: int) -> tuple[int, int]: ...
@@ -372,7 +388,11 @@ class Timing:
         Pulses start at (line v_sync_start, column v_sync_at_h) of every frame and last
         ``vertical.sync`` lines; a pulse that would have begun before reset never shows.
         """
-        return (q >= self.vsync_first) & ((q - self.vsync_first) % self.frame_cycles < self.vsync_cycles)
+        if not self.interlaced:
+            return (q >= self.vsync_first) & ((q - self.vsync_first) % self.frame_cycles < self.vsync_cycles)
+        s0, s1 = self.vsync_starts()
+        return ((q >= s0) & ((q - s0) % self.frame_cycles < self.vsync_cycles)) | (
+            (q >= s1) & ((q - s1) % self.frame_cycles < self.vsync_cycles))
 
 
 def timing(spec: Spec) -> Timing:

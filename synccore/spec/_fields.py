@@ -125,8 +125,11 @@ SPEC_FIELDS = (
           ranged=True),
     Field("horizontal", "section", "timing within a line, in pixels",
           fields=_axis_fields("pixels", "line")),
-    Field("vertical", "section", "timing within a frame, in lines",
-          fields=_axis_fields("lines", "frame")),
+    Field("vertical", "section", "timing within a frame, in lines (within one field when "
+          "interlaced)", fields=_axis_fields("lines", "frame")),
+    Field("interlaced", "bool", "two fields per frame (CTA-861 interlace): vertical gives the "
+          "second field; the first has one more back-porch line and its vsync half a line later",
+          required=False, default=False),
     Field("core", "section", "options of the generated core", required=False,
           fields=CORE_FIELDS),
     Field("ports", "section", "port naming", required=False, fields=PORT_FIELDS),

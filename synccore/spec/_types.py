@@ -144,6 +144,8 @@ class Spec:
     vertical: Axis
     core: CoreOptions = CoreOptions()
     port_prefix: str = ""
+    interlaced: bool = False
+    """Two fields per frame; ``vertical`` describes one field (see :mod:`synccore.model.timing`)."""
     source: str = "<string>"
     origin: str = ""
     """Where the timing came from when not given explicitly: a library entry, a formula, a fit."""
@@ -181,6 +183,7 @@ def to_dict(spec: Spec) -> dict[str, Any]:
         "vertical": vars(spec.vertical).copy(),
         "core": vars(spec.core).copy(),
         "port_prefix": spec.port_prefix,
+        **({"interlaced": True} if spec.interlaced else {}),
         "source": spec.source,
         "color": vars(spec.color).copy(),
         "fit": None if spec.fit is None else {
@@ -218,6 +221,7 @@ def from_dict(data: dict[str, Any]) -> Spec:
         vertical=Axis(**data["vertical"]),
         core=CoreOptions(**data["core"]),
         port_prefix=data["port_prefix"],
+        interlaced=data.get("interlaced", False),
         source=data["source"],
         color=Color(**data.get("color", {})),
         fit=_fit_from(data.get("fit")),

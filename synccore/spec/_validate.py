@@ -52,7 +52,10 @@ def validate(
     v = Axis(**values["vertical"])
     core = CoreOptions(**values["core"]) if values["core"] else CoreOptions()
     prefix: str = (values["ports"] or {}).get("prefix", "") or ""
+    interlaced = bool(values["interlaced"])
     _check_cross(top, values["name"], h, v, core, prefix, out)
+    if interlaced:
+        _check_interlace(top, h, v, core, out)
     if out.problems:
         raise SpecError(out.problems)
     return Spec(
@@ -62,6 +65,7 @@ def validate(
         vertical=v,
         core=core,
         port_prefix=prefix,
+        interlaced=interlaced,
         source=source,
         origin=origin,
         notes=notes,
@@ -141,3 +145,25 @@ def _check_cross(
     if clash:
         out.add(where(doc, "name"), "name",
                 f"clashes with port {prefix + clash[0]!r} (VHDL ignores case), got {name!r}")  # fmt: skip
+
+
+def _check_interlace(doc: loader.Located, h: Axis, v: Axis, core: CoreOptions,
+                     out: Collector) -> None:  # fmt: skip
+    """Rules of an interlaced timing: a half line in whole cycles, the options the core has."""
+    half = 2 * core.pixels_per_clock
+    if h.total % half:
+        out.add(where(doc, "horizontal"), "horizontal",
+                f"interlaced: the total must divide by 2 x core.pixels_per_clock = {half} "
+                f"(vsync starts half a line late), got {h.total}")  # fmt: skip
+    if v.back_porch < 1:
+        out.add(where(doc, "vertical", "back_porch"), "vertical.back_porch",
+                f"interlaced: must be at least 1 (vsync ends inside its field), got {v.back_porch}")
+    if core.lead:
+        out.add(where(doc, "core", "lead"), "core.lead",
+                f"interlaced cores have no lead yet: must be 0, got {core.lead}")
+    if core.scale > 1:
+        out.add(where(doc, "core", "scale"), "core.scale",
+                f"interlaced cores have no scale yet: must be 1, got {core.scale}")
+    if v.active < 2:
+        out.add(where(doc, "vertical", "active"), "vertical.active",
+                f"interlaced: must be at least 2 (a field of one row), got {v.active}")

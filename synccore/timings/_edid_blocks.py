@@ -172,7 +172,7 @@ def _library_name(width: int, height: int, refresh: int) -> str:
     """The library source of a WIDTHxHEIGHT@REFRESH mode, DMT first; "" when absent."""
     found = [m for m in modes.library()
              if (m.horizontal.active, m.vertical.active) == (width, height)
-             and m.nominal_refresh_hz == refresh]  # fmt: skip
+             and m.nominal_refresh_hz == refresh and not m.interlaced]  # fmt: skip
     found.sort(key=lambda m: (m.family != "DMT", m.reduced_blanking))
     return found[0].source if found else ""
 

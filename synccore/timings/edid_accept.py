@@ -40,6 +40,8 @@ def _listed(e: Edid, clock: Fraction, h: Axis, v: Axis) -> str:
     sources = {t.library: t.label for t in e.established + e.standard if t.library}
     sources.update({f"CTA VIC {s.vic}": f"VIC {s.vic}" for c in e.cta for s in c.videos})
     for m in modes.library():
+        if m.interlaced:  # an interlaced mode is never the same timing as a progressive one
+            continue
         names = [n.removesuffix(" (1000/1001)") for n in (m.source, *m.also)]
         names = [n for n in names if n in sources]
         if names and (m.horizontal, m.vertical) == (h, v) and _close(clock, m.pixel_clock_hz):

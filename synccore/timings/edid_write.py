@@ -42,10 +42,11 @@ def _limit(value: int, bits: int, what: str, spec: str) -> int:
     return value
 
 
-def _flags(h: Axis, v: Axis) -> int:
-    """Byte 17: progressive, no stereo, digital separate sync (bits 4-3 = 11), bit 2 vsync
-    and bit 1 hsync polarity, 1 = positive (E-EDID 1.4 section 3.10.2, Table 3.22)."""
-    return 0x18 | (0x04 if v.sync_polarity == "positive" else 0) | (
+def _flags(h: Axis, v: Axis, interlaced: bool) -> int:
+    """Byte 17: bit 7 interlaced (vertical figures then per field), no stereo, digital
+    separate sync (bits 4-3 = 11), bit 2 vsync and bit 1 hsync polarity, 1 = positive
+    (E-EDID 1.4 section 3.10.2, Table 3.22)."""
+    return (0x80 if interlaced else 0) | 0x18 | (0x04 if v.sync_polarity == "positive" else 0) | (
         0x02 if h.sync_polarity == "positive" else 0)  # fmt: skip
 
 
@@ -74,7 +75,7 @@ def dtd(spec: Spec) -> bytes:
         (hf >> 8) << 6 | (hs >> 8) << 4 | (vf >> 4) << 2 | vs >> 4,
         0, 0, 0,  # image size in mm unknown (bytes 12-14)
         0, 0,  # no border (bytes 15-16)
-        _flags(h, v),
+        _flags(h, v, spec.interlaced),
     ])  # fmt: skip
 
 
@@ -154,6 +155,8 @@ def cta_vics(spec: Spec) -> list[int]:
     """The CTA-861 VICs in the library with exactly ``spec``'s timing."""
     out = []
     for m in modes.library():
+        if m.interlaced != spec.interlaced:
+            continue
         for source in (m.source, *m.also):
             if source.startswith("CTA VIC ") and (m.pixel_clock_hz, m.horizontal, m.vertical) \
                     == (spec.pixel_clock_hz, spec.horizontal, spec.vertical):  # fmt: skip

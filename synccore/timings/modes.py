@@ -53,10 +53,23 @@ class Mode:
     also: tuple[str, ...] = ()
     note: str = ""
     aspect: str = ""
+    interlaced: bool = False  # two fields per frame; ``vertical`` describes one field
+    repetition: int = 1  # CTA-861 pixel repetition: each picture pixel is sent this many times
+
+    @property
+    def width(self) -> int:
+        """Picture pixels per line (the active pixel clocks over the repetition)."""
+        return self.horizontal.active // self.repetition
+
+    @property
+    def height(self) -> int:
+        """Picture rows per frame (both fields' rows when interlaced)."""
+        return self.vertical.active * (2 if self.interlaced else 1)
 
     @property
     def name(self) -> str:
-        return f"{self.horizontal.active}x{self.vertical.active}@{self.refresh_label}"
+        """WIDTHxHEIGHT@RATE, with an i before the @ for interlaced modes (the field rate)."""
+        return f"{self.width}x{self.height}{'i' if self.interlaced else ''}@{self.refresh_label}"
 
     @property
     def family(self) -> str:
@@ -72,6 +85,9 @@ class Mode:
 
     @property
     def refresh_hz(self) -> Fraction:
+        """Frames per second, or fields per second when interlaced."""
+        if self.interlaced:
+            return self.line_rate_hz * 2 / (2 * self.vertical.total + 1)
         return self.line_rate_hz / self.vertical.total
 
     @property
@@ -84,8 +100,8 @@ class Mode:
         return "reduced blanking" in self.note
 
     def same_timing(self, other: Mode) -> bool:
-        return (self.pixel_clock_hz, self.horizontal, self.vertical) == (
-            other.pixel_clock_hz, other.horizontal, other.vertical)  # fmt: skip
+        return (self.pixel_clock_hz, self.horizontal, self.vertical, self.interlaced) == (
+            other.pixel_clock_hz, other.horizontal, other.vertical, other.interlaced)  # fmt: skip
 
     def as_spec_keys(self) -> dict[str, Any]:
         """The spec format's keys for this timing, plus its source (for ``--json``)."""
@@ -101,6 +117,8 @@ class Mode:
                if self.pixel_clock_hz.denominator != 1 else {}),
             "horizontal": _axis_dict(self.horizontal),
             "vertical": _axis_dict(self.vertical),
+            **({"interlaced": True} if self.interlaced else {}),
+            **({"pixel_repetition": self.repetition} if self.repetition > 1 else {}),
         }
 
 
@@ -138,6 +156,8 @@ def library() -> tuple[Mode, ...]:
             also=tuple(e.get("also", ())),
             note=e.get("note", ""),
             aspect=str(e.get("aspect", "")),
+            interlaced=bool(e.get("interlaced", False)),
+            repetition=int(e.get("pixel_repetition", 1)),
         )
         out.append(base)
         if e.get("fractional"):
@@ -150,6 +170,8 @@ def library() -> tuple[Mode, ...]:
                 also=tuple(f"{a} (1000/1001)" for a in base.also),
                 note=base.note,
                 aspect=base.aspect,
+                interlaced=base.interlaced,
+                repetition=base.repetition,
             ))  # fmt: skip
     return tuple(out)
 
@@ -161,7 +183,7 @@ class ModeLookupError(ValueError):
 _SOURCE = re.compile(r"\s*(?:(dmt)\s*(?:id\s*)?(0x[0-9a-f]+|[0-9a-f]+h?)|(?:cta\s*)?vic\s*([0-9]+))"
                      r"(\s*\(1000/1001\)|\s*@\s*(?:59\.94|29\.97|23\.976))?\s*\Z",
                      re.IGNORECASE)  # fmt: skip
-_NAME = re.compile(r"\s*([0-9]+)\s*x\s*([0-9]+)\s*@\s*([0-9]+(?:\.[0-9]+)?)\s*(?:hz)?"
+_NAME = re.compile(r"\s*([0-9]+)\s*x\s*([0-9]+)(i?)\s*@\s*([0-9]+(?:\.[0-9]+)?)\s*(?:hz)?"
                    r"((?:\s+\w+)*)\s*\Z", re.IGNORECASE)  # fmt: skip
 _DMT_ID_WORD = re.compile(r"0x([0-9a-f]{1,2})|([0-9][0-9a-f]?)h", re.IGNORECASE)
 QUALIFIERS = ("dmt", "cta", "rb", "std")
@@ -197,8 +219,9 @@ def find(query: str) -> Mode:
             "must name a mode like '1280x720@60' (optionally followed by dmt, cta, rb or std) "
             "or a source like 'DMT 55h' or 'CTA VIC 4'"
         )
-    width, height, rate = int(m.group(1)), int(m.group(2)), m.group(3)
-    words = [w.lower() for w in m.group(4).split()]
+    width, height, rate = int(m.group(1)), int(m.group(2)), m.group(4)
+    interlaced = bool(m.group(3))
+    words = [w.lower() for w in m.group(5).split()]
     for w in words:
         if w not in QUALIFIERS:
             raise ModeLookupError(
@@ -209,7 +232,7 @@ def find(query: str) -> Mode:
         raise ModeLookupError(f"bad refresh {rate!r}") from None
     found = [
         mode for mode in library()
-        if mode.horizontal.active == width and mode.vertical.active == height
+        if (mode.width, mode.height, mode.interlaced) == (width, height, interlaced)
         and mode.nominal_refresh_hz == wanted
         and ("dmt" not in words or mode.family == "DMT")
         and ("cta" not in words or mode.family == "CTA")
@@ -218,10 +241,10 @@ def find(query: str) -> Mode:
     ]  # fmt: skip
     if not found:
         near = sorted({m.name for m in library()
-                       if m.horizontal.active == width and m.vertical.active == height},
+                       if (m.width, m.height) == (width, height)},
                       key=lambda n: Decimal(n.split("@")[1]))  # fmt: skip
         hint = f"; this size exists as {', '.join(near)}" if near else ""
-        raise ModeLookupError(f"no library entry is {width}x{height}@{rate}"
+        raise ModeLookupError(f"no library entry is {width}x{height}{m.group(3)}@{rate}"
                            f"{' ' + ' '.join(words) if words else ''}{hint}")  # fmt: skip
     distinct: list[Mode] = []
     for mode in found:

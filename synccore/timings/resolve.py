@@ -124,8 +124,15 @@ def _standard(node: Node, result: Resolved, out: Collector) -> None:
         return
     _put(result.doc.value, result.doc.key_locations, mode.pixel_clock_hz, mode.horizontal,
          mode.vertical, where)  # fmt: skip
+    if mode.interlaced:
+        result.doc.value["interlaced"] = resolved_scalar(True, where)
+        result.doc.key_locations["interlaced"] = where
     result.origin = f"{mode.source} ({mode.name})"
-    result.notes = (mode.note,) if mode.note else ()
+    notes = [mode.note] if mode.note else []
+    if mode.repetition > 1:
+        notes.append(f"pixel repetition {mode.repetition}: {mode.width} picture pixels per line, "
+                     f"each sent {mode.repetition} times ({mode.horizontal.active} pixel clocks)")
+    result.notes = tuple(notes)
 
 
 def _formula(node: Node, result: Resolved, out: Collector) -> None:

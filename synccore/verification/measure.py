@@ -14,6 +14,12 @@ from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 
 from synccore.model import Event, Timing
+from synccore.verification.measure_fields import (
+    FIELD_KEYS,
+    FIELD_ROWS,
+    expected_fields,
+    measure_fields,
+)
 
 
 @dataclass(frozen=True)
@@ -63,7 +69,20 @@ QUANTITIES: tuple[tuple[str, str, str], ...] = (
     ("frame_start", "frame_start per frame", ""),
     ("frame_start_aligned", "frame_start with frame's first de", ""),
 )
-LABELS = {key: (label, unit) for key, label, unit in QUANTITIES}
+LABELS = {key: (label, unit) for key, label, unit in QUANTITIES + FIELD_ROWS}
+
+
+def quantities(t: Timing) -> tuple[tuple[str, str, str], ...]:
+    """The rows measured for ``t``: interlaced timings add field rows and measure per field."""
+    if not t.interlaced:
+        return QUANTITIES
+    rows: list[tuple[str, str, str]] = []
+    for key, label, unit in QUANTITIES:
+        per_field = key in FIELD_KEYS and key not in ("frame_total", "frame_start_aligned")
+        rows.append((key, f"{label} (field 0 / 1)" if per_field else label, unit))
+        if key == "frame_total":
+            rows += FIELD_ROWS
+    return tuple(rows)
 
 
 def _idle_level(events: Sequence[Event], name: str) -> set[int]:
@@ -142,7 +161,7 @@ def _find_pulses(events: Sequence[Event], h_active_level: int, v_active_level: i
 
 def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
     """Figures measured from the events of a run of at least two frames."""
-    found: Found = {key: set() for key, _, _ in QUANTITIES}
+    found: Found = {key: set() for key, _, _ in quantities(t)}
     # Polarity: a sync's idle level is the level it holds for most of the time de is high
     # (vsync may overlap the first active line when the vertical back porch is 0).
     h_idle = _idle_level(events, "hsync")
@@ -152,16 +171,19 @@ def measure(events: Sequence[Event], t: Timing) -> dict[str, Figure]:
     if p.de_runs:
         found["first_de"].add(p.de_runs[0][0])
     _measure_lines(found, events, p, t.ppc)
-    if p.line_total:
-        _measure_vertical(found, events, p, t.ppc)
-    _measure_frames(found, events, p, t)
+    if t.interlaced:
+        found.update(measure_fields(events, p.de_runs, p.vsyncs, p.line_total, t))
+    else:
+        if p.line_total:
+            _measure_vertical(found, events, p, t.ppc)
+        _measure_frames(found, events, p, t)
     if events:
         found["xy_steps"].add(events[-1].step_faults)
     found["hsync_polarity"] = set(_polarity(h_idle))
     found["vsync_polarity"] = set(_polarity(v_idle))
     return {
         key: Figure(key, label, unit, tuple(sorted(found[key], key=_sort_key)))
-        for key, label, unit in QUANTITIES
+        for key, label, unit in quantities(t)
     }
 
 
@@ -262,7 +284,7 @@ def _sort_key(value: object) -> tuple[int, str]:
 def expected(t: Timing) -> dict[str, object]:
     """What the reference model says each measured quantity must be."""
     h, v = t.spec.horizontal, t.spec.vertical
-    return {
+    want: dict[str, object] = {
         "first_de": 1,
         "line_total": h.total,
         "hsync_period": h.total,
@@ -289,6 +311,9 @@ def expected(t: Timing) -> dict[str, object]:
         "frame_start": 1,
         "frame_start_aligned": "yes",
     }
+    if t.interlaced:
+        want.update(expected_fields(t))
+    return want
 
 
 @dataclass(frozen=True)
@@ -305,7 +330,7 @@ def compare(t: Timing, runs: dict[str, dict[str, Figure]]) -> list[Row]:
     """One row per quantity: the expected value, each engine's measurement, and the verdict."""
     want = expected(t)
     rows = []
-    for key, label, unit in QUANTITIES:
+    for key, label, unit in quantities(t):
         got = {engine: figs[key].text() for engine, figs in runs.items()}
         ok = all(figs[key].values == (want[key],) for figs in runs.values())
         rows.append(Row(key, label, unit, want[key], got, ok))

@@ -28,6 +28,9 @@ CASES = {
     "small_opts": timings.SMALL_ALL_OPTIONS,
     "scaled": timings.SCALED,
     "scaled_ppc": timings.SCALED_PPC,
+    "cta_1080i": timings.CTA_1080I,
+    "small_interlaced": timings.SMALL_INTERLACED,
+    "small_interlaced_opts": timings.SMALL_INTERLACED_OPTS,
     **{p.stem: p.read_text() for p in EXAMPLES},
 }
 RESET_STYLES = ["sync_high", "sync_low", "async_high", "async_low"]

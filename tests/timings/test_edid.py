@@ -173,7 +173,7 @@ def test_nothing_to_read_is_one_error(raw: bytes, message: str) -> None:
 
 def _spec(m: modes.Mode) -> Spec:
     return Spec(name="t", pixel_clock_hz=m.pixel_clock_hz, horizontal=m.horizontal,
-                vertical=m.vertical)  # fmt: skip
+                vertical=m.vertical, interlaced=m.interlaced)  # fmt: skip
 
 
 def test_every_library_mode_round_trips() -> None:
@@ -190,6 +190,7 @@ def test_every_library_mode_round_trips() -> None:
         assert e.problems == (), m.source
         d = e.detailed[0]
         assert (d.horizontal, d.vertical) == (m.horizontal, m.vertical), m.source
+        assert d.interlaced == m.interlaced, m.source  # byte 17 bit 7 (Table 3.22)
         # The clock is stored in 10 kHz steps (section 3.10.2): nearest step.
         assert abs(d.pixel_clock_hz - m.pixel_clock_hz) <= 5_000, m.source
         if m.family == "CTA":

@@ -95,7 +95,13 @@ def test_every_entry_adds_up(m: modes.Mode) -> None:
         assert a.total == a.active + a.front_porch + a.sync + a.back_porch
         assert a.front_porch >= 0 and a.sync > 0 and a.back_porch >= 0
         assert a.sync_polarity in (P, N)
-    assert m.refresh_hz == m.pixel_clock_hz / (m.horizontal.total * m.vertical.total)
+    if m.interlaced:
+        # Two fields of v.total and v.total + 1 lines per frame: 1080i 1125, 480i 525, 576i
+        # 625 lines (CTA-861-G Table 1, from memory); the rate counts fields.
+        frame = m.horizontal.total * (2 * m.vertical.total + 1)
+        assert m.refresh_hz == m.pixel_clock_hz * 2 / frame
+    else:
+        assert m.refresh_hz == m.pixel_clock_hz / (m.horizontal.total * m.vertical.total)
     nominal = m.nominal_refresh_hz
     if m.family == "CTA":
         # CTA-861 formats run at exactly their rate, or 1000/1001 of it, which the
@@ -254,3 +260,35 @@ def test_cli_modes_filter_by_dmt_id() -> None:
         assert [e["source"] for e in json.loads(r.output)] == ["DMT 1Ah"]
     r = CliRunner().invoke(main, ["modes", "0x55"])
     assert r.exit_code == 0 and "1280x720@60" in r.output and "DMT 55h" in r.output
+
+
+@pytest.mark.parametrize(("query", "clock", "h_total", "frame_lines", "fields_per_s"), [
+    # CTA-861-G Table 1 (from memory): pixel clock, total pixel clocks per line, lines per
+    # frame, field rate; 480i and 576i with pixel repetition 2 (1440 clocks per active line).
+    ("CTA VIC 5", 74_250_000, 2200, 1125, 60),
+    ("CTA VIC 20", 74_250_000, 2640, 1125, 50),
+    ("CTA VIC 6", 27_027_000, 1716, 525, 60),
+    ("CTA VIC 7", 27_027_000, 1716, 525, 60),
+    ("CTA VIC 21", 27_000_000, 1728, 625, 50),
+    ("CTA VIC 22", 27_000_000, 1728, 625, 50),
+])  # fmt: skip
+def test_interlaced_entries(query: str, clock: int, h_total: int, frame_lines: int,
+                            fields_per_s: int) -> None:  # fmt: skip
+    m = modes.find(query)
+    assert m.interlaced
+    assert m.pixel_clock_hz == clock and m.horizontal.total == h_total
+    assert 2 * m.vertical.total + 1 == frame_lines
+    # The brief's cross-check: clock / (H total x frame lines) x 2 = fields per second.
+    assert Fraction(clock, h_total * frame_lines) * 2 == fields_per_s == m.refresh_hz
+    assert m.width == (720 if h_total < 2000 else 1920)
+
+
+@pytest.mark.parametrize(("name", "source"), [
+    ("1920x1080i@60", "CTA VIC 5"), ("1920x1080i@59.94", "CTA VIC 5 (1000/1001)"),
+    ("720x480i@59.94", "CTA VIC 6 (1000/1001)"), ("720x576i@50", "CTA VIC 21"),
+])  # fmt: skip
+def test_interlaced_names(name: str, source: str) -> None:
+    assert modes.find(name).source == source
+    # The per-field size is not a progressive mode's name.
+    with pytest.raises(modes.ModeLookupError, match="no library entry is 1920x540@50"):
+        modes.find("1920x540@50")

@@ -24,6 +24,8 @@ CASES = {
     "no_back_porch": timings.NO_BACK_PORCH,
     "all_options": timings.SMALL_ALL_OPTIONS,
     "scaled_ppc": timings.SCALED_PPC,
+    "interlaced": timings.SMALL_INTERLACED,
+    "interlaced_opts": timings.SMALL_INTERLACED_OPTS,
 }
 RUNS = [("icarus", "08"), ("ghdl", "93"), ("ghdl", "08"), ("verilator", "08")]
 

@@ -14,7 +14,7 @@ from dataclasses import dataclass
 
 from synccore.emit._jinja import environment
 from synccore.emit.core.context import GENERATED_MARK, CoreContext, build_context
-from synccore.model import LFSR_SEED, MONITOR_FIELDS, RESET_CYCLES, Timing
+from synccore.model import LFSR_SEED, RESET_CYCLES, Timing, monitor_fields
 from synccore.spec import Spec
 
 HARNESS_TOP = "synccore_harness"
@@ -55,9 +55,9 @@ def harness_context(spec: Spec) -> HarnessContext:
         ppc=t.ppc,
         x_step=t.x_step,
         lfsr_seed=LFSR_SEED,
-        event_format=" ".join("%0d" for _ in MONITOR_FIELDS),
-        event_args=", ".join(_VERILOG_SOURCE[name] for name, _ in MONITOR_FIELDS),
-        vhdl_event_items=_vhdl_items(),
+        event_format=" ".join("%0d" for _ in monitor_fields(t.interlaced)),
+        event_args=", ".join(_VERILOG_SOURCE[name] for name, _ in monitor_fields(t.interlaced)),
+        vhdl_event_items=_vhdl_items(t.interlaced),
     )
 
 
@@ -67,19 +67,20 @@ _VERILOG_SOURCE = {
     "vblank": "vblank", "frame_start": "frame_start",
     "line_start": "line_start", "x": "x_d", "y": "y_d", "x_last": "x_last",
     "step_faults": "step_faults", "line_starts": "line_starts", "frame_starts": "frame_starts",
+    "field": "field",
 }  # fmt: skip
 _VHDL_SOURCE = {
     "adv": "adv", "hsync": "as_int(hsync)", "vsync": "as_int(vsync)", "de": "as_int(de)",
     "hblank": "as_int(hblank)", "vblank": "as_int(vblank)",
     "frame_start": "as_int(frame_start)", "line_start": "as_int(line_start)",
     "x": "x_d", "y": "y_d", "x_last": "x_last", "step_faults": "step_faults",
-    "line_starts": "line_starts", "frame_starts": "frame_starts",
+    "line_starts": "line_starts", "frame_starts": "frame_starts", "field": "as_int(field)",
 }  # fmt: skip
 
 
-def _vhdl_items() -> tuple[str, ...]:
+def _vhdl_items(interlaced: bool) -> tuple[str, ...]:
     items: list[str] = []
-    for i, (name, _) in enumerate(MONITOR_FIELDS):
+    for i, (name, _) in enumerate(monitor_fields(interlaced)):
         if i:
             items.append("string'(\" \")")
         items.append(_VHDL_SOURCE[name])

@@ -11,7 +11,7 @@ from dataclasses import dataclass
 from pathlib import PurePath
 
 from synccore._version import __version__
-from synccore.emit.core.flags import Flag, position_flags
+from synccore.emit.core.flags import FIELD_END, Flag, position_flags
 from synccore.model import Timing, reset_port
 from synccore.model.report import figures, options, text_table, timing_table
 
@@ -68,6 +68,8 @@ class CoreContext:
     ppc: int
     flags: tuple[Flag, ...]  # the registered position flags (decide one cycle early)
     flag: dict[str, str]  # role -> flag register (roles at one position share a register)
+    interlaced: bool = False  # two fields: a field register, field 0's vsync half a line late
+    field_end: str = ""  # interlaced: the wire that is 1 on the current field's last line
 
     # Most significant bit indices, so templates never compute.
     @property
@@ -94,6 +96,15 @@ class CoreContext:
     def y_src_msb(self) -> int:
         return self.y_lsb + self.y_width - 1
 
+    @property
+    def y_line_bits(self) -> int:
+        """Interlaced: bits of the line counter y shows above the field bit."""
+        return self.y_width - 1
+
+    @property
+    def y_line_msb(self) -> int:
+        return self.y_width - 2
+
 
 def _constants(t: Timing) -> tuple[Constant, ...]:
     """The core's named constants: counter terminal counts, sync edges, sync levels."""
@@ -109,7 +120,10 @@ def _constants(t: Timing) -> tuple[Constant, ...]:
         Constant("H_ACTIVE", t.h_active, hw, "active cycles per line", in_verilog=lead),
         Constant("H_LAST", t.h_last, hw, "last cycle of a line", in_verilog=lead),
         Constant("V_ACTIVE", t.v_active, vw, "active lines per frame", in_verilog=lead),
-        Constant("V_LAST", t.v_last, vw, "last line of a frame"),
+        Constant("V_LAST", t.v_last, vw,
+                 "last line of field 1" if t.interlaced else "last line of a frame"),
+        *([Constant("V_LAST_F0", t.field_lines(0) - 1, vw,
+                    "last line of field 0 (one more back-porch line)")] if t.interlaced else []),
     ]
     if core.lead:
         consts += [
@@ -164,11 +178,16 @@ def _ports(t: Timing) -> tuple[Port, ...]:
              + (f"; divided by {core.scale}" if core.scale > 1 else "")),
         Port("y", p + "y", "out", t.y_width,
              "row of the pixel" + (f" ({core.lead} cycles ahead of de)" if core.lead else "")
+             + ("; the frame's row: 2 x the field's line + field" if t.interlaced else "")
              + (f"; divided by {core.scale}" if core.scale > 1 else "")),
         Port("line_start", p + "line_start", "out", None, "1 on the first active pixel of a line"),
         Port("frame_start", p + "frame_start", "out", None,
-             "1 on the first active pixel of a frame"),
+             "1 on the first active pixel of a frame"
+             + (" (of field 0)" if t.interlaced else "")),
     ]  # fmt: skip
+    if t.interlaced:
+        ports.append(Port("field", p + "field", "out", None,
+                          "0 during field 0 (even rows), 1 during field 1 (odd rows)"))
     return tuple(ports)
 
 
@@ -206,6 +225,8 @@ def build_context(t: Timing) -> CoreContext:
         ppc=t.ppc,
         flags=flags,
         flag=flag,
+        interlaced=t.interlaced,
+        field_end=FIELD_END if t.interlaced else "",
     )
 
 

@@ -23,13 +23,35 @@ class Flag:
     axis: str  # "h" or "v"
     at: int  # the counter position at which the flag is 1
     reset: int  # its value during reset (the counters reset to 0)
-    source: str  # a flag that is 1 one position before, or "" to compare
+    source: str  # a flag that is 1 one position before (or the field-end wire), or "" to compare
     before: str  # the constant ``at - 1`` (wrapped) to compare with, when source is ""
     before_value: int
 
 
+FIELD_END = "v_at_field_end"
+"""Interlaced cores: the wire that is 1 on the last line of the current field; the flag of
+line 0 loads from it (the two fields end on different lines)."""
+
+
 def _roles(t: Timing) -> tuple[tuple[str, str, int, str], ...]:
     """(role, axis, position, what it marks) of every flag the templates read."""
+    return _progressive_roles(t) + (_field0_roles(t) if t.interlaced else ())
+
+
+def _field0_roles(t: Timing) -> tuple[tuple[str, str, int, str], ...]:
+    """Interlaced: where field 0's vsync, half a line late, starts and ends."""
+    line, column = t.vsync_at(0)
+    return (
+        ("h_at_vsync_f0", "h", column, "the cycle at which field 0's vsync changes, "
+         "half a line after field 1's"),
+        ("v_at_sync_start_f0", "v", line, "the first line of field 0's vsync pulse"),
+        ("v_at_sync_end_f0", "v", line + t.spec.vertical.sync,
+         "the line in which field 0's vsync pulse ends"),
+    )
+
+
+def _progressive_roles(t: Timing) -> tuple[tuple[str, str, int, str], ...]:
+    """The roles of every core, progressive or interlaced."""
     return (
         ("h_at_last", "h", t.h_last, "the last cycle of a line"),
         ("h_at_zero", "h", 0, "the first cycle of a line"),
@@ -59,6 +81,8 @@ def position_flags(t: Timing) -> tuple[tuple[Flag, ...], dict[str, str], dict[st
         total = t.h_total if axis == "h" else t.v_total
         before = (at - 1) % total
         source = owner.get((axis, before), "")
+        if t.interlaced and (axis, at) == ("v", 0):
+            source = FIELD_END
         flags.append(Flag(name=name, axis=axis, at=at, reset=int(at == 0), source=source,
                           before="" if source else f"{name.upper()}_FROM",
                           before_value=before))  # fmt: skip
