@@ -44,17 +44,22 @@ from hypothesis import strategies as st
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, os.fspath(ROOT))
 from tests.fuzz_check import SPEC_NAME, VCD_MAP, VCD_NAME, spec_verdict, vcd_verdict  # noqa: E402
+
 OUT = ROOT / "tests" / "regressions" / "fuzz"
 
-SPEC_TOKENS = [b"&a ", b"*a", b"<<: ", b"!!int ", b"!!float ", b"!!str ", b"!!binary ", b"!x ", b"{", b"}",
-               b"[", b"]", b"- ", b": ", b", ", b'"', b"'", b"\t", b"\n", b"\r", b"---\n", b"...\n", b"%YAML 1.1\n",
-               b"? ", b"|", b">", b"#", b"1e999", b".nan", b"-.inf", b"0x", b"0o7", b"1_000", b" MHz", b" kHz",
-               b" GHz", b" Hz", b" ms", b" us", b"standard: ", b"formula: ", b"fit: ", b"core: ", b"\xef\xbb\xbf",
-               b"\xff", b"\x00", b"\xc2\x85", b"\xe2\x80\xa8", b"null", b"~", b"true", b"2001-01-01"]  # fmt: skip
-VCD_TOKENS = [b"$scope module m $end\n", b"$upscope $end\n", b"$end", b"$var wire 1 ! clk $end\n",
-              b"$var real 64 % q $end\n", b"$timescale", b"$enddefinitions $end\n", b"$dumpvars\n", b"$comment",
-              b"#", b"#0\n", b"b", b"r", b"x", b"z", b"1!", b"0!", b"b1111111111111111111 $\n", b"r1e308 $\n",
-              b"rnan ", b"1 fs", b"100 as", b"\n", b" ", b"\t", b"\x00", b"\xff", b"-"]  # fmt: skip
+SPEC_TOKENS = [
+    b"&a ", b"*a", b"<<: ", b"!!int ", b"!!float ", b"!!str ", b"!!binary ", b"!x ", b"{", b"}", b"[", b"]",
+    b"- ", b": ", b", ", b'"', b"'", b"\t", b"\n", b"\r", b"---\n", b"...\n", b"%YAML 1.1\n", b"? ", b"|",
+    b">", b"#", b"1e999", b".nan", b"-.inf", b"0x", b"0o7", b"1_000", b" MHz", b" kHz", b" GHz", b" Hz",
+    b" ms", b" us", b"standard: ", b"formula: ", b"fit: ", b"core: ", b"\xef\xbb\xbf", b"\xff", b"\x00",
+    b"\xc2\x85", b"\xe2\x80\xa8", b"null", b"~", b"true", b"2001-01-01",
+]  # fmt: skip
+VCD_TOKENS = [
+    b"$scope module m $end\n", b"$upscope $end\n", b"$end", b"$var wire 1 ! clk $end\n",
+    b"$var real 64 % q $end\n", b"$timescale", b"$enddefinitions $end\n", b"$dumpvars\n", b"$comment",
+    b"#", b"#0\n", b"b", b"r", b"x", b"z", b"1!", b"0!", b"b1111111111111111111 $\n", b"r1e308 $\n",
+    b"rnan ", b"1 fs", b"100 as", b"\n", b" ", b"\t", b"\x00", b"\xff", b"-",
+]  # fmt: skip
 NUMBERS = [b"0", b"-1", b"1", b"4096", b"4097", b"65535", b"2147483648", b"18446744073709551616",
            b"99999999999999999999", b"1e308", b"1e-320", b"0.5", b"00", b"1" * 120]  # fmt: skip
 
@@ -309,7 +314,8 @@ def main() -> int:
                   f"{len(tally.crashes)} crash(es)")  # fmt: skip
             for crash, data in tally.crashes.items():
                 small = shrink(target, data, crash, args.hang, args.shrink)
-                print(f"  {crash}\n    -> {_keep(target, small, crash).relative_to(ROOT)} ({len(small)} bytes)")
+                kept = _keep(target, small, crash).relative_to(ROOT)
+                print(f"  {crash}\n    -> {kept} ({len(small)} bytes)")
             found += len(tally.crashes)
     return 1 if found else 0
 
