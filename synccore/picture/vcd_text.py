@@ -54,7 +54,12 @@ class _Tokens:
     def error(self, message: str, *, at_end: bool = False, pos: int | None = None) -> VcdFormatError:
         if pos is None:
             pos = len(self.data) if at_end or self.last is None else self.last.start()
-        return VcdFormatError(f"{self.where(pos)}: {message}")
+        return VcdFormatError(f"{self.where(pos)}: {_printable(message)}")
+
+
+def _printable(text: str) -> str:
+    """Escape what could break the one-line message (a token may hold any byte)."""
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
 
 
 def parse_header(path: Path, data: bytes) -> tuple[float, Names, int]:
