@@ -54,7 +54,12 @@ class _Tokens:
     def error(self, message: str, *, at_end: bool = False, pos: int | None = None) -> VcdFormatError:
         if pos is None:
             pos = len(self.data) if at_end or self.last is None else self.last.start()
-        return VcdFormatError(f"{self.where(pos)}: {message}")
+        return VcdFormatError(f"{self.where(pos)}: {_printable(message)}")
+
+
+def _printable(text: str) -> str:
+    """Escape what could break the one-line message (a token may hold any byte)."""
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
 
 
 def parse_header(path: Path, data: bytes) -> tuple[float, Names, int]:
@@ -135,7 +140,7 @@ def load_changes(path: Path, data: bytes, start: int, codes: set[object], bits: 
     toks = _Tokens(path, data, start)
     now = 0  # changes before the first timestamp (some writers put $dumpvars first) are at 0
     pending: Callable[[str], None] | None = None
-    for tok, _pos in toks:
+    for tok, pos in toks:
         if pending is not None:
             pending(tok)
             pending = None
@@ -150,10 +155,10 @@ def load_changes(path: Path, data: bytes, start: int, codes: set[object], bits: 
             now = int(t)
         elif c0 in "bB":
             value = _vector(toks, tok[1:])
-            pending = _recorder(changes, now, value, toks)
+            pending = _recorder(changes, now, value, toks, (pos, bits))
         elif c0 in "rR":
             _real(toks, tok[1:])
-            pending = _recorder(changes, now, None, toks)
+            pending = _recorder(changes, now, None, toks, (pos, bits))
         elif c0 in "01xXzZuUwWlLhH-":
             if len(tok) < 2:
                 raise toks.error(f"value {tok!r} without an identifier code")
@@ -168,9 +173,6 @@ def load_changes(path: Path, data: bytes, start: int, codes: set[object], bits: 
             raise toks.error(f"unexpected {tok[:20]!r}: expected #time, a value change or a $keyword")
     if pending is not None:
         raise toks.error("the file ends inside a value change (identifier code missing)", at_end=True)
-    for code, (_, values) in changes.items():
-        if any(v >> bits[code] for v in values):
-            raise VcdFormatError(f"{path}: a value of {code!r} is wider than its {bits[code]} bits")
     return changes
 
 
@@ -191,12 +193,18 @@ def _real(toks: _Tokens, text: str) -> None:
         raise toks.error(f"real value {text[:20]!r}: expected a finite number")
 
 
-def _recorder(changes: Changes, now: int, value: int | None, toks: _Tokens) -> Callable[[str], None]:
+def _recorder(changes: Changes, now: int, value: int | None, toks: _Tokens,
+              at: tuple[int, dict[object, int]]) -> Callable[[str], None]:  # fmt: skip
+    """Records a vector or real change once its code is read; ``at``: the value's offset, the widths."""
+    pos, bits = at
+
     def record(code: str) -> None:
         if code not in changes:
             return
         if value is None:
             raise toks.error(f"{code!r} changes to a real value; a display pin must be a bit or a vector")
+        if value >> bits[code]:
+            raise toks.error(pos=pos, message=f"a value of {code!r} is wider than its {bits[code]} bits")
         changes[code][0].append(now)
         changes[code][1].append(value)
     return record

@@ -180,7 +180,8 @@ class _Converter:
             return Scalar(Refused(), where, node.tag)
         try:
             value = self.constructor.construct_object(node, deep=True)
-        except (ValueError, KeyError, TypeError, OverflowError, yaml.constructor.ConstructorError):
+        except (ValueError, KeyError, IndexError, TypeError, OverflowError,
+                yaml.constructor.ConstructorError):  # IndexError: an empty !!float (found by fuzzing)
             tag = _TAGS.get(node.tag, "!!timestamp")
             self.problems.append(Problem(where, path, f"{text[:40]!r} is not a valid {tag} value; write the "
                                                       "value without the tag, or a valid one"))  # fmt: skip

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from synccore.errors import Problem
+from synccore.errors import Problem, SpecError
 from synccore.spec import Node, Spec, load_file, load_text, top_mapping, validate
 from synccore.timings.resolve import resolve
 
@@ -28,6 +28,10 @@ def loads(text: str, source: str = "<string>") -> Spec:
 
 def _read(doc: Node, source: str, reading: list[Problem]) -> Spec:
     """``reading``: what the YAML reader refused but read past (every problem is reported at once)."""
-    resolved = resolve(top_mapping(doc))
+    try:
+        top = top_mapping(doc)
+    except SpecError as err:  # the reader's own problems say why a scalar stands where the mapping goes
+        raise SpecError([*reading, *err.problems]) from None
+    resolved = resolve(top)
     return validate(resolved.doc, source=source, origin=resolved.origin, notes=resolved.notes,
                     fit=resolved.fit, earlier=[*reading, *resolved.problems])  # fmt: skip

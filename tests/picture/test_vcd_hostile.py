@@ -61,7 +61,7 @@ KINDS = {
     "bad vector": (dict(body="#0\nb10a2 $\n"), "vector value '10a2'"),
     "vector without code": (dict(body="#0\nb1010"), "the file ends inside a value change"),
     "value too wide": (dict(body="#0\nb11111 $\n#1\n1!\n#2\n0!\n#3\n1!\n#4\n0!\n#5\n1!\n#6\n0!\n"),
-                       "a value of '$' is wider than its 4 bits"),
+                       "run.vcd:11:1: a value of '$' is wider than its 4 bits"),
     "garbage": (dict(body="#0\n@@@\n"), "unexpected '@@@'"),
     "huge timestamp": (dict(body="#" + "9" * 5000 + "\n"), "timestamp '#999"),
 }

@@ -95,6 +95,18 @@ def test_the_other_problems_still_reported_with_a_duplicate_key() -> None:
     assert any("horizontal.front_porch: must be ≥ 0" in line for line in lines), lines
 
 
+def test_an_empty_tagged_number_is_refused_with_its_reason() -> None:
+    """Found by benchmarks/fuzz.py: PyYAML's float constructor indexed an empty value (IndexError)."""
+    assert _problems("!!float") == [
+        "hostile.yaml:1:1: '' is not a valid !!float value; write the value without the tag, or a valid one",
+        "hostile.yaml:1:1: must be a mapping of name, standard, formula, fit, pixel_clock_hz, horizontal, "
+        "vertical, core, ports, board, color, got <refused>",
+    ]
+    lines = _problems(BASE.replace("25175000", "!!float"))
+    assert lines == ["hostile.yaml:2:17: pixel_clock_hz: '' is not a valid !!float value; write the value "
+                     "without the tag, or a valid one"], lines
+
+
 def test_merge_keys_share_porches() -> None:
     text = ("name: hall_sign\npixel_clock_hz: 25175000\n"
             "x-wide: &wide {front_porch: 16, back_porch: 48, sync_polarity: negative}\n"
