@@ -185,7 +185,7 @@ def _clock_enable_problems(plan: ClockPlan) -> list[Problem]:
         return []
     if plan.spec.core.clock_enable:
         return []
-    return [Problem(None, "core.clock_enable",
+    return [Problem(plan.spec.location("core.clock_enable"), "core.clock_enable",
                     f"must be true for the clock-enable route (ce every {enable.divide} "
                     f"cycles of {hz(plan.f_board)}), got false")]  # fmt: skip
 

@@ -79,6 +79,9 @@ def resolve(spec: Spec, board_clock: str | None, family: str | None, no_pll: boo
     else:
         raise BadOption("--board-clock: no board clock given; pass --board-clock or set "
                         "board.clock_hz in the spec")  # fmt: skip
+    if no_pll and family is not None:
+        raise BadOption(f"--family: {family} cannot go with --no-pll (the clock-enable route "
+                        "uses no PLL); pass one or the other")  # fmt: skip
     if no_pll:
         return board, None
     return board, family if family is not None else spec.board.family

@@ -88,6 +88,14 @@ def test_clock_reports_640x480_at_25_000_mhz_as_0_7_percent_slow(tmp_path: Path)
     assert "No setting is within +/-0.5 % of the pixel clock." in out
 
 
+def test_family_with_no_pll_is_refused_not_dropped(tmp_path: Path) -> None:
+    spec = write(tmp_path, DMT_640)
+    code, out, err = run("clock", spec, "--board-clock", "100MHz", "--no-pll", "--family", "ice40")
+    assert code != 0 and out == ""
+    assert err.strip() == ("--family: ice40 cannot go with --no-pll (the clock-enable "
+                           "route uses no PLL); pass one or the other")  # fmt: skip
+
+
 def test_adjustment_keeps_refresh_on_target(tmp_path: Path) -> None:
     """From 25 MHz no route reaches 25.175 MHz; a shorter line at 25.000 MHz keeps ~59.94 Hz."""
     spec = loads(DMT_640)
@@ -225,8 +233,8 @@ def test_clock_enable_route_needs_the_ce_input(tmp_path: Path) -> None:
     code, _, err = run("build", write(tmp_path, DMT_640), "-o", str(out), "--clock",
                        "--board-clock", "100.7MHz", "--no-pll")  # fmt: skip
     assert code == 2 and not out.exists()
-    assert re.fullmatch(r"core\.clock_enable: must be true for the clock-enable route \(ce every "
-                        r"4 cycles of 100\.700 MHz\), got false\n", err)  # fmt: skip
+    assert re.fullmatch(r".*/vga\.yaml:1:1: core\.clock_enable: must be true for the clock-enable "
+                        r"route \(ce every 4 cycles of 100\.700 MHz\), got false\n", err)  # fmt: skip
     text = DMT_640.replace("name: vga\n", "name: vga\ncore: {clock_enable: true}\n")
     code, _, err = run("build", write(tmp_path, text, "ce.yaml"), "-o", str(out), "--clock",
                        "--board-clock", "100.7MHz", "--no-pll")  # fmt: skip
