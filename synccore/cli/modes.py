@@ -25,7 +25,7 @@ from synccore.units import fixed, hz, in_unit
 
 
 def _bad(message: str) -> NoReturn:
-    fail(f"synccore: {message}")
+    fail(message)
 
 
 @click.command("modes")
@@ -46,7 +46,7 @@ def modes_command(filter_words: tuple[str, ...], max_clock: str | None,
     if max_clock is not None:
         limit = parse_frequency(max_clock)
         if limit is None:
-            _bad(f'--max-clock must be a frequency like "100MHz", got {max_clock!r}')
+            _bad(f'--max-clock: must be a frequency like "100MHz", got {max_clock!r}')
     found = modes.search(" ".join(filter_words), max_clock_hz=limit)
     if as_json:
         click.echo(json.dumps([m.as_spec_keys() for m in found], indent=2))

@@ -96,7 +96,7 @@ def test_cli_round_trip(tmp_path) -> None:
 def test_cli_bad_modeline() -> None:
     r = CliRunner().invoke(main, ["new", "--modeline", "1 2 3"])
     assert r.exit_code == 2
-    assert re.match(r"^synccore: --modeline: expected a clock in MHz and eight numbers",
+    assert re.match(r"^--modeline: expected a clock in MHz and eight numbers",
                     r.stderr)
 
 

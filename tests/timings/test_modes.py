@@ -184,7 +184,7 @@ def test_cli_modes_filter_and_clock_limit() -> None:
 def test_cli_modes_bad_clock() -> None:
     r = CliRunner().invoke(main, ["modes", "--max-clock", "fast"])
     assert r.exit_code == 2
-    assert re.search(r'^synccore: --max-clock must be a frequency like "100MHz", got \'fast\'$',
+    assert re.search(r'^--max-clock: must be a frequency like "100MHz", got \'fast\'$',
                      r.stderr, re.M)
 
 
