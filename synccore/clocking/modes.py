@@ -39,7 +39,7 @@ from fractions import Fraction
 
 from synccore.clocking import adjust
 from synccore.clocking.families import FAMILIES, FAMILY_KEYS, Family
-from synccore.clocking.plan import ClockPlan, make_plan, tolerance_of
+from synccore.clocking.plan import ClockPlan, make_plan
 from synccore.clocking.solve import EnableSetting, Setting, reachable
 from synccore.errors import ToolError
 from synccore.spec import Spec, parse_frequency
@@ -96,10 +96,24 @@ class ModesPlan:
     max_core_clock: Fraction | None  # the highest F searched (PLL route); None: no bound
     max_core_clock_source: str
     shared: SharedClock | None
+    alone: tuple[SharedClock | None, ...] = ()
+    """Per mode, when its own plan misses and no clock serves every mode: a PLL output with a
+    clock-enable divide that serves that mode alone (the single-mode plan tries none), else None."""
 
     @property
     def specs(self) -> tuple[Spec, ...]:
         return tuple(p.spec for p in self.plans)
+
+    def own(self, index: int) -> Setting | EnableSetting | None:
+        """Mode ``index``'s own route: its divide of a PLL output serving it alone, else its plan's."""
+        alone = self.alone[index] if self.alone else None
+        return alone.enables[0] if alone is not None else self.plans[index].best
+
+    def own_setting(self, index: int) -> Setting | None:
+        """The PLL setting of mode ``index``'s own route (None on the clock-enable route)."""
+        alone = self.alone[index] if self.alone else None
+        best = alone.setting if alone is not None else self.plans[index].best
+        return best if isinstance(best, Setting) else None
 
     @property
     def same_clock(self) -> bool:
@@ -114,14 +128,16 @@ class ModesPlan:
         PLL setting would not help (the clock-enable route, or one setting for all)."""
         if self.shared is not None:
             return "common"
-        if self.family is not None and len({_key(p.best) for p in self.plans}) > 1:
+        keys = {_key(self.own_setting(i)) for i in range(len(self.plans))}
+        if self.family is not None and len(keys) > 1:
             return "reconfigure"
         return "outside"
 
     @property
     def outside(self) -> tuple[ClockPlan, ...]:
-        """The modes whose own plan misses their tolerance (each may offer an adjustment)."""
-        return tuple(p for p in self.plans if not p.within_tolerance)
+        """The modes no route of their own reaches within tolerance (each may offer an adjustment)."""
+        return tuple(p for i, p in enumerate(self.plans)
+                     if not p.within_tolerance and not (self.alone and self.alone[i]))  # fmt: skip
 
     @property
     def needs_clock_enable(self) -> tuple[Spec, ...]:
@@ -132,10 +148,8 @@ class ModesPlan:
                      if d > 1 and not s.core.clock_enable)  # fmt: skip
 
 
-def _key(route: object) -> object:
-    if isinstance(route, Setting):
-        return tuple(sorted(route.parameters().items()))
-    return route
+def _key(setting: Setting | None) -> object:
+    return None if setting is None else tuple(sorted(setting.parameters().items()))
 
 
 def _divide(f_clock: Fraction, target: Fraction) -> EnableSetting:
@@ -264,5 +278,8 @@ def plan_modes(
         limit, source = bound, "the maximum core clock given"
     if limit is None:  # pragma: no cover - every family states an output limit
         raise AssertionError(fam.key)
-    return ModesPlan(plans, f_board, fam, limit, source, shared_clock(plans, fam, f_board, limit))
+    shared = shared_clock(plans, fam, f_board, limit)
+    alone = () if shared is not None else tuple(
+        None if p.within_tolerance else shared_clock([p], fam, f_board, limit) for p in plans)
+    return ModesPlan(plans, f_board, fam, limit, source, shared, alone)
 

@@ -32,16 +32,16 @@ def _names(plan: ModesPlan) -> list[str]:
 
 
 def _route(plan: ModesPlan, index: int) -> Route | None:
-    """What makes mode ``index``'s clock: the shared clock's divide, else its own plan's best."""
+    """What makes mode ``index``'s clock: the shared clock's divide, else its own route."""
     if plan.shared is not None:
         return plan.shared.enables[index]
-    return plan.plans[index].best
+    return plan.own(index)
 
 
 def _divide(route: Route | None) -> str:
     if route is None:
         return "-"
-    return str(route.divide) if isinstance(route, EnableSetting) else "1 (own PLL setting)"
+    return str(route.divide) if isinstance(route, EnableSetting) else "1"
 
 
 def _within(p: ClockPlan, route: Route | None) -> bool:
@@ -53,7 +53,7 @@ def _within(p: ClockPlan, route: Route | None) -> bool:
 
 def modes_table(plan: ModesPlan) -> list[tuple[str, ...]]:
     """One row per mode under :data:`MODE_COLUMNS`: wanted, reached, error, divide, verdict."""
-    rows = []
+    rows: list[tuple[str, ...]] = []
     for i, (name, p) in enumerate(zip(_names(plan), plan.plans, strict=True)):
         route = _route(plan, i)
         ppc = p.timing.ppc
@@ -103,14 +103,22 @@ def _common_facts(plan: ModesPlan) -> list[tuple[str, str]]:
     else:
         what = (f"one PLL output, {hz(shared.f_clock)}, with each mode's clock-enable divide "
                 f"(the core runs at {hz(shared.f_clock)} with its ce input)")  # fmt: skip
-    rows = [("verdict", f"one PLL configuration serves every mode: {what}"),
+    return [("verdict", f"one PLL configuration serves every mode: {what}"),
             ("setting", route_text(shared.setting))]  # fmt: skip
-    fastest = max(p.target for p in plan.plans)
-    if shared.f_clock > fastest * (1 + max(p.tolerance for p in plan.plans)):
-        rows.append(("note", f"the core runs at {hz(shared.f_clock)} in every mode: it must meet "
-                             "timing there in your part (synccore fit reports Fmax; "
-                             "--max-core-clock searches below a limit)"))  # fmt: skip
-    return rows
+
+
+def _fast_note(plan: ModesPlan) -> list[tuple[str, str]]:
+    """A note when a PLL output runs the core faster than a mode's own clock (ce divide > 1)."""
+    if plan.family is None:
+        return []
+    fast = [(r.f_board, name) for i, name in enumerate(_names(plan))
+            if isinstance(r := _route(plan, i), EnableSetting) and r.divide > 1]  # fmt: skip
+    if not fast:
+        return []
+    top = max(f for f, _ in fast)
+    which = "every mode" if plan.shared is not None else ", ".join(n for _, n in fast)
+    return [("note", f"the core runs at up to {hz(top)} ({which}): it must meet timing there in "
+                     "your part (synccore fit reports Fmax; --max-core-clock bounds the search)")]
 
 
 def _split_facts(plan: ModesPlan) -> list[tuple[str, str]]:
@@ -120,8 +128,12 @@ def _split_facts(plan: ModesPlan) -> list[tuple[str, str]]:
                         "within its tolerance: each mode needs its own PLL setting, and switching "
                         "between them needs dynamic reconfiguration of the PLL (not emitted)"),
             ("reconfiguration", f"{fam.key}: {RECONFIGURATION[fam.key]}")]  # fmt: skip
-    for name, p in zip(_names(plan), plan.plans, strict=True):
-        rows.append((f"setting {name}", "none" if p.best is None else route_text(p.best)))
+    for i, name in enumerate(_names(plan)):
+        setting, route = plan.own_setting(i), plan.own(i)
+        text = "none" if setting is None else route_text(setting)
+        if isinstance(route, EnableSetting):
+            text += f", then ce every {route.divide} cycles"
+        rows.append((f"setting {name}", text))
     return rows
 
 
@@ -135,17 +147,23 @@ def verdict_facts(plan: ModesPlan) -> list[tuple[str, str]]:
         rows = [("verdict", "no configuration serves every mode: the clock-enable route has one "
                             "clock, the board's, and it misses some modes' tolerance; name a "
                             "PLL family (--family) or adjust those modes' porches")]  # fmt: skip
+    elif not plan.family.input_range.holds(plan.f_board):
+        r = plan.family.input_range
+        return [("verdict", f"no configuration: the board clock {hz(plan.f_board)} is outside the "
+                            f"{plan.family.primitive} input range "
+                            f"{hz(r.low or 0)} to {hz(r.high) if r.high else 'any'}")]
     else:
         rows = [("verdict", "no configuration serves every mode, and no PLL setting of "
                             f"{plan.family.key} reaches some modes within tolerance on its own")]
+    rows += _fast_note(plan)
     if plan.verdict != "common" and plan.outside:
-        rows.append(("outside alone", f"{_outside_names(plan)}: see `synccore clock "
-                                      "SPEC` for each, and --write FILE for its porch "
-                                      "adjustment"))  # fmt: skip
+        rows.append(("outside alone", f"{_outside_names(plan)}: no route of its own is within "
+                                      "tolerance; `synccore clock SPEC ... --write FILE` "
+                                      "adjusts its porches"))  # fmt: skip
     if plan.needs_clock_enable:
         names = ", ".join(s.name for s in plan.needs_clock_enable)
-        rows.append(("note", f"set core.clock_enable: true in {names}: their core is divided "
-                             "by more than 1"))  # fmt: skip
+        rows.append(("note", f"set core.clock_enable: true in {names} (a mode divided by more "
+                             "than 1 advances on its ce input)"))  # fmt: skip
     return rows
 
 
