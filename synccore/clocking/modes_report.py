@@ -113,6 +113,9 @@ def _fast_note(plan: ModesPlan) -> list[tuple[str, str]]:
         return []
     fast = [(r.f_board, name) for i, name in enumerate(_names(plan))
             if isinstance(r := _route(plan, i), EnableSetting) and r.divide > 1]  # fmt: skip
+    top_mode = max(plan.plans, key=lambda p: p.target)
+    if plan.shared is not None and plan.shared.f_clock <= top_mode.target * (1 + top_mode.tolerance):
+        return []  # the fastest mode runs the core at this clock anyway
     if not fast:
         return []
     top = max(f for f, _ in fast)
