@@ -43,6 +43,7 @@ from synccore.clocking.plan import ClockPlan, make_plan
 from synccore.clocking.solve import EnableSetting, Setting, reachable
 from synccore.errors import ToolError
 from synccore.spec import Spec, parse_frequency
+from synccore.units import hz
 
 __all__ = ["RECONFIGURATION", "ModesPlan", "SharedClock", "plan_modes", "shared_clock"]
 
@@ -141,11 +142,12 @@ class ModesPlan:
 
     @property
     def needs_clock_enable(self) -> tuple[Spec, ...]:
-        """Modes divided by more than 1 under the shared clock whose core has no ce input."""
-        if self.shared is None:
-            return ()
-        return tuple(s for s, d in zip(self.specs, self.shared.divides, strict=True)
-                     if d > 1 and not s.core.clock_enable)  # fmt: skip
+        """Modes whose route divides by more than 1 (the shared clock's, else their own) and
+        whose core has no ce input."""
+        routes = self.shared.enables if self.shared else [self.own(i) for i in range(len(self.plans))]
+        return tuple(s for s, r in zip(self.specs, routes, strict=True)
+                     if isinstance(r, EnableSetting) and r.divide > 1
+                     and not s.core.clock_enable)  # fmt: skip
 
 
 def _key(setting: Setting | None) -> object:
@@ -153,7 +155,7 @@ def _key(setting: Setting | None) -> object:
 
 
 def _divide(f_clock: Fraction, target: Fraction) -> EnableSetting:
-    """The whole divide of ``f_clock`` closest to ``target`` (relative error; smaller on a tie)."""
+    """The whole divide of ``f_clock`` closest to ``target`` (the smaller on a tie)."""
     low = max(1, int(f_clock // target))
     best = min((low, low + 1), key=lambda d: (abs(f_clock / d - target), d))
     return EnableSetting(f_clock, target, best)
@@ -256,8 +258,9 @@ def plan_modes(
     cannot apply to the clock-enable route, where the core runs at the board clock).
 
     Raises :class:`ToolError` (with ``subject`` ``board_clock_hz``, ``family`` or
-    ``max_core_clock_hz``) for a bad frequency, an unknown family or a bound without a
-    family; ``TypeError`` when ``specs`` is not a non-empty sequence of :class:`Spec`.
+    ``max_core_clock_hz``) for a bad frequency, an unknown family, a bound without a
+    family or below the fastest mode's core clock; ``TypeError`` when ``specs`` is not a
+    non-empty sequence of :class:`Spec`.
     """
     modes = _specs(specs)
     f_board = _frequency(board_clock, "board_clock_hz")
@@ -273,6 +276,11 @@ def plan_modes(
         shared = (SharedClock(f_board, None, enables, tuple(p.tolerance for p in plans))
                   if all(p.within_tolerance for p in plans) else None)  # fmt: skip
         return ModesPlan(plans, f_board, None, None, "", shared)
+    fastest = max(plans, key=lambda p: p.target)
+    if bound is not None and bound < fastest.target:
+        raise ToolError(f"must be at least the fastest mode's core clock, {hz(fastest.target)} "
+                        f"({fastest.spec.name}), got {hz(bound)}",
+                        subject="max_core_clock_hz")  # fmt: skip
     limit, source = fam.output_range.high, f"the {fam.primitive} output limit"
     if bound is not None and (limit is None or bound < limit):
         limit, source = bound, "the maximum core clock given"

@@ -325,6 +325,10 @@ def test_bad_inputs() -> None:
     with pytest.raises(ToolError) as err:
         plan_modes([VGA], "12MHz", None, max_core_clock_hz="100MHz")
     assert err.value.subject == "max_core_clock_hz"
+    with pytest.raises(ToolError) as err:
+        plan_modes([VGA, XGA], "12MHz", "ice40", max_core_clock_hz="60MHz")
+    assert str(err.value) == ("max_core_clock_hz: must be at least the fastest mode's core "
+                              "clock, 65.000 MHz (xga), got 60.000 MHz")
 
 
 def test_reconfiguration_notes_name_every_family_and_a_document() -> None:
