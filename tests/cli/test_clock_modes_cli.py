@@ -12,7 +12,7 @@ from synccore.cli.main import main
 
 MHZ = 10**6
 
-# CTA-861 as reproduced in the Linux kernel's edid_cea_modes_1[] (drivers/gpu/drm/drm_edid.c):
+# CTA-861 video formats (from memory):
 # VIC 4 1280x720@60 74.25 MHz 1280/1390/1430/1650 720/725/730/750 +/+;
 # VIC 16 1920x1080@60 148.5 MHz 1920/2008/2052/2200 1080/1084/1089/1125 +/+.
 HD720 = """\
@@ -28,7 +28,7 @@ pixel_clock_hz: 148.5 MHz
 horizontal: {active: 1920, front_porch: 88, sync: 44, back_porch: 148, sync_polarity: positive}
 vertical: {active: 1080, front_porch: 4, sync: 5, back_porch: 36, sync_polarity: positive}
 """
-# VESA DMT as reproduced in drm_dmt_modes[] (same file): 09h 800x600@60 40.000 MHz
+# VESA DMT 1.0 rev. 13 (from memory): 09h 800x600@60 40.000 MHz
 # 800/840/968/1056 600/601/605/628 +/+; 10h 1024x768@60 65.000 MHz 1024/1048/1184/1344
 # 768/771/777/806 -/-.
 SVGA = """\

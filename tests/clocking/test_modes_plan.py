@@ -1,8 +1,8 @@
 """Several modes from one board clock: one PLL output with ce divides, or a setting per mode.
 
-Check values come from the standards (timings as reproduced in the Linux kernel's
-drivers/gpu/drm/drm_edid.c: drm_dmt_modes[] for VESA DMT, edid_cea_modes_1[] for
-CTA-861) and from arithmetic done here by hand, never from the planner; PLL settings
+Check values come from the standards (VESA DMT 1.0 rev. 13 and CTA-861's table of video
+formats, figures from memory, the same as the library's entries cite) and from arithmetic done
+here by hand, never from the planner; PLL settings
 are checked against the vendors' formulas and limits typed in again in test_solve.py.
 """
 
@@ -36,13 +36,13 @@ def spec(name: str, mhz: str, h: tuple[int, int, int, int], v: tuple[int, int, i
     )
 
 
-# VESA DMT (drm_dmt_modes[]): 04h 640x480@60 25.175 MHz 640/656/752/800 480/490/492/525 -/-;
+# VESA DMT 1.0 rev. 13 (from memory): 04h 640x480@60 25.175 MHz 640/656/752/800 480/490/492/525 -/-;
 # 09h 800x600@60 40.000 MHz 800/840/968/1056 600/601/605/628 +/+;
 # 10h 1024x768@60 65.000 MHz 1024/1048/1184/1344 768/771/777/806 -/-.
 VGA = spec("vga", "25.175", (640, 16, 96, 48), (480, 10, 2, 33), "negative")
 SVGA = spec("svga", "40", (800, 40, 128, 88), (600, 1, 4, 23), "positive")
 XGA = spec("xga", "65", (1024, 24, 136, 160), (768, 3, 6, 29), "negative")
-# CTA-861 (edid_cea_modes_1[]): VIC 4 1280x720@60 74.25 MHz 1280/1390/1430/1650
+# CTA-861 video formats (from memory): VIC 4 1280x720@60 74.25 MHz 1280/1390/1430/1650
 # 720/725/730/750 +/+; VIC 16 1920x1080@60 148.5 MHz 1920/2008/2052/2200 1080/1084/1089/1125
 # +/+; VIC 19 1280x720@50 74.25 MHz 1280/1720/1760/1980 720/725/730/750 +/+.
 HD720 = spec("hd720", "74.25", (1280, 110, 40, 220), (720, 5, 5, 20), "positive", ce=False)
