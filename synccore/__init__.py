@@ -4,7 +4,8 @@ A YAML timing description is read into a :class:`Spec` (:func:`load`,
 :func:`loads`), derived into a :class:`Timing` (:func:`timing`; the reference
 model every test checks against), written as Verilog-2001 and VHDL cores with
 optional benches, test-pattern design and clock wrapper (:func:`write`,
-:func:`plan_clock`, :func:`adjusted_spec` when the board cannot make the clock),
+:func:`plan_clock`, :func:`adjusted_spec` when the board cannot make the clock;
+:func:`plan_modes` for several modes from one board clock),
 measured in simulation (:func:`verify`) and proved for all time (:func:`prove`).
 Standard timings come from :func:`find_mode`.
 
@@ -20,6 +21,7 @@ from synccore.api import (
     LinkPlan,
     Location,
     Mode,
+    ModesPlan,
     Outputs,
     Problem,
     ProofResult,
@@ -39,6 +41,7 @@ from synccore.api import (
     loads,
     plan_clock,
     plan_dvi_link,
+    plan_modes,
     prove,
     render_verilog,
     render_vhdl,
@@ -55,6 +58,7 @@ __all__ = [
     "LinkPlan",
     "Location",
     "Mode",
+    "ModesPlan",
     "Outputs",
     "Problem",
     "ProofResult",
@@ -74,6 +78,7 @@ __all__ = [
     "loads",
     "plan_clock",
     "plan_dvi_link",
+    "plan_modes",
     "prove",
     "render_verilog",
     "render_vhdl",

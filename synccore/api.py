@@ -21,6 +21,7 @@ from synccore.analog import DacDesign, design_dac
 from synccore.clocking import FAMILIES, FAMILY_KEYS, Family, advice
 from synccore.clocking.link import LinkPlan, plan_link
 from synccore.clocking.link_report import link_refusal
+from synccore.clocking.modes import ModesPlan, plan_modes
 from synccore.clocking.plan import ClockPlan, make_plan
 from synccore.clocking.report import miss_text
 from synccore.emit import render_verilog, render_vhdl
@@ -54,8 +55,8 @@ from synccore.verification.prove import ProofResult, prove
 from synccore.verification.tools import INSTALL_HINT, unusable
 
 __all__ = [
-    "Axis", "ClockPlan", "CoreOptions", "DacDesign", "LinkPlan", "Location", "Mode", "Outputs", "Problem",
-    "ProofResult", "Report", "Spec", "SpecError", "Timing", "ToolError",
+    "Axis", "ClockPlan", "CoreOptions", "DacDesign", "LinkPlan", "Location", "Mode", "ModesPlan",
+    "Outputs", "Problem", "ProofResult", "Report", "Spec", "SpecError", "Timing", "ToolError",
     "__version__",
     "adjusted_spec",
     "adjusted_text",
@@ -66,7 +67,7 @@ __all__ = [
     "plan_dvi_link",
     "load",
     "loads",
-    "plan_clock",
+    "plan_clock", "plan_modes",
     "prove",
     "render_verilog",
     "render_vhdl",

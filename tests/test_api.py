@@ -30,9 +30,10 @@ DOC = ROOT / "docs" / "api.md"
 MHZ = 1_000_000
 
 CURATED = {
-    "load", "loads", "timing", "write", "verify", "plan_clock", "plan_dvi_link", "adjusted_spec",
-    "adjusted_text", "find_mode", "fit", "prove", "ProofResult", "design_dac", "DacDesign",
-    "Spec", "Timing", "Axis", "CoreOptions", "Outputs", "ClockPlan", "LinkPlan", "Mode", "Report",
+    "load", "loads", "timing", "write", "verify", "plan_clock", "plan_dvi_link", "plan_modes",
+    "adjusted_spec", "adjusted_text", "find_mode", "fit", "prove", "ProofResult", "design_dac", "DacDesign",
+    "Spec", "Timing", "Axis", "CoreOptions", "Outputs", "ClockPlan", "LinkPlan", "ModesPlan", "Mode",
+    "Report",
     "SpecError", "ToolError", "Problem", "Location",
     "json_schema", "render_verilog", "render_vhdl", "__version__",
 }  # fmt: skip

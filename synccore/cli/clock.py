@@ -20,11 +20,19 @@ import click
 from rich.console import Console
 from rich.markup import escape
 
-from synccore.api import adjusted_text, plan_clock, plan_dvi_link
+from synccore.api import adjusted_text, plan_clock, plan_dvi_link, plan_modes
 from synccore.cli._common import console, fail, fail_spec, load_spec, save
 from synccore.clocking import FAMILY_KEYS
 from synccore.clocking.link import LinkPlan
 from synccore.clocking.link_report import link_dict, link_facts
+from synccore.clocking.modes_report import (
+    MODE_COLUMNS,
+    modes_dict,
+    modes_facts,
+    modes_table,
+    table_lines,
+    verdict_facts,
+)
 from synccore.clocking.plan import ClockPlan
 from synccore.clocking.report import (
     adjustment_facts,
@@ -37,7 +45,8 @@ from synccore.clocking.report import (
 )
 from synccore.errors import SpecError, ToolError
 from synccore.spec import Spec
-from synccore.units import fixed
+from synccore.timings import load
+from synccore.units import fixed, hz
 
 ACCEPT_OPTION = "--accept-clock-error"
 """The ``build`` option that writes a clock plan outside the tolerance anyway."""
@@ -222,8 +231,77 @@ def run_link(spec: Spec, board_clock: str | None, family: str | None, as_json: b
         print_link(plan, console())
 
 
+_MODES_OPTION = {**_OPTION, "max_core_clock_hz": "--max-core-clock"}
+"""The option that gave each argument of :func:`synccore.api.plan_modes`."""
+
+
+def load_specs(paths: tuple[str, ...]) -> list[Spec]:
+    """Every spec at ``paths``, or every problem of all of them and exit 2."""
+    specs, problems = [], []
+    for path in paths:
+        try:
+            specs.append(load(path))
+        except SpecError as err:
+            problems += err.problems
+    if problems:
+        fail(str(p) for p in problems)
+    return specs
+
+
+def _agreed(paths: tuple[str, ...], option: str, what: str, values: list[Any],
+            show: Callable[[Any], str] = str) -> Any:  # fmt: skip
+    """The one value the specs that give one agree on (None if none gives one)."""
+    given = [(path, v) for path, v in zip(paths, values, strict=True) if v is not None]
+    if len({v for _, v in given}) > 1:
+        listed = ", ".join(f"{path}: {show(v)}" for path, v in given)
+        raise BadOption(f"{option}: the specs name different {what} ({listed}); pass {option}")
+    return given[0][1] if given else None
+
+
+def resolve_modes(specs: list[Spec], paths: tuple[str, ...], board_clock: str | None,
+                  family: str | None, no_pll: bool) -> tuple[str | Fraction, str | None]:  # fmt: skip
+    """As :func:`resolve` for several specs: their board sections must agree where they speak."""
+    if no_pll and family is not None:
+        raise BadOption(f"--family: {family} cannot go with --no-pll (the clock-enable route "
+                        "uses no PLL); pass one or the other")  # fmt: skip
+    board: str | Fraction | None = board_clock
+    if board is None:
+        board = _agreed(paths, "--board-clock", "board clocks",
+                        [s.board.clock_hz for s in specs], hz)  # fmt: skip
+    if board is None:
+        raise BadOption("--board-clock: no board clock given; pass --board-clock or set "
+                        "board.clock_hz in the specs")  # fmt: skip
+    if no_pll:
+        return board, None
+    if family is None:
+        family = _agreed(paths, "--family", "families", [s.board.family for s in specs])
+    return board, family
+
+
+def run_modes(paths: tuple[str, ...], board_clock: str | None, family: str | None,
+              no_pll: bool, max_core_clock: str | None, as_json: bool) -> None:  # fmt: skip
+    """``clock A B ...``: plan the modes together and print the table and verdict (or JSON)."""
+    specs = load_specs(paths)
+    try:
+        board, key = resolve_modes(specs, paths, board_clock, family, no_pll)
+        plan = plan_modes(specs, board, key, max_core_clock_hz=max_core_clock)
+    except BadOption as err:
+        fail(str(err))
+    except ToolError as err:
+        fail(f"{_MODES_OPTION.get(err.subject, '--board-clock')}: {err.message}")
+    if as_json:
+        click.echo(json.dumps(modes_dict(plan), indent=2))
+        return
+    out = console()
+    _print_facts(modes_facts(plan), out)
+    for line in table_lines(MODE_COLUMNS, modes_table(plan)):
+        out.print(escape(line))
+    _print_facts(verdict_facts(plan), out)
+
+
 @click.command()
-@click.argument("spec", type=click.Path(dir_okay=False))
+@click.argument("specs", metavar="SPEC...", nargs=-1, required=True,
+                type=click.Path(dir_okay=False))
 @board_options
 @click.option("--link", "link", type=click.Choice(["dvi"]), default=None,
               help="Plan a link's clocks instead: dvi (serial clock = 5 x pixel clock and "
@@ -233,9 +311,27 @@ def run_link(spec: Spec, board_clock: str | None, family: str | None, as_json: b
               help="Write the adjusted timing (porches and the reached pixel clock) as a "
                    "complete, commented spec to FILE.")
 @click.option("--force", is_flag=True, help="With --write: overwrite FILE if it exists.")
-def clock(spec: str, board_clock: str | None, family: str | None, no_pll: bool,
-          link: str | None, as_json: bool, write_to: str | None, force: bool) -> None:  # fmt: skip
-    """Plan the core clock of SPEC from the board clock: PLL settings or a clock enable."""
+@click.option("--max-core-clock", default=None, metavar="FREQ",
+              help="With several SPEC files: the fastest clock the core may run at in your "
+                   "part, bounding the shared PLL output searched (default: the PLL's limit).")
+def clock(specs: tuple[str, ...], board_clock: str | None, family: str | None, no_pll: bool,
+          link: str | None, as_json: bool, write_to: str | None, force: bool,
+          max_core_clock: str | None) -> None:  # fmt: skip
+    """Plan the core clock of SPEC from the board clock: PLL settings or a clock enable.
+
+    With several SPEC files (the modes one display is driven at), plan them together:
+    whether one PLL configuration serves every mode through clock-enable divides, or
+    each mode needs its own PLL setting.
+    """
+    if len(specs) > 1:
+        for given, option in ((link, "--link"), (write_to, "--write"), (force or None, "--force")):
+            if given is not None:
+                fail(f"{option}: not available with several SPEC files; give one SPEC for it")
+        run_modes(specs, board_clock, family, no_pll, max_core_clock, as_json)
+        return
+    if max_core_clock is not None:
+        fail("--max-core-clock: applies only when planning several SPEC files together")
+    spec = specs[0]
     s = load_spec(spec)
     if force and write_to is None:
         fail("--force needs --write")

@@ -7,6 +7,9 @@ depends on the timing model) turns a spec and a board into a plan, with
 :mod:`synccore.clocking.adjust` finding a raster the route can reach when it
 misses; :mod:`synccore.clocking.report` says it in words and
 :mod:`synccore.clocking.advice` writes the adjusted timing as a spec.
+:mod:`synccore.clocking.modes` plans several modes from one board clock (one PLL
+output with clock-enable divides, or a setting per mode), and
+:mod:`synccore.clocking.modes_report` says that in words.
 """
 
 from synccore.clocking.families import FAMILIES, FAMILY_KEYS, Family, family

@@ -12,8 +12,8 @@ from synccore.spec import Spec
 from synccore.units import fixed, hz, in_unit
 
 __all__ = [
-    "TOLERANCE_SOURCE", "adjustment_facts", "miss_text", "percent_text", "plan_dict",
-    "plan_facts", "ppm_text", "route_text", "tolerance_text",
+    "TOLERANCE_SOURCE", "adjustment_facts", "json_number", "miss_text", "percent_text",
+    "plan_dict", "plan_facts", "ppm_text", "route_dict", "route_text", "tolerance_text",
 ]  # fmt: skip
 
 
@@ -167,28 +167,28 @@ def adjustment_facts(plan: ClockPlan) -> list[tuple[str, str]]:
     return rows
 
 
-def _json_number(v: Fraction | int) -> int | float:
+def json_number(v: Fraction | int) -> int | float:
     f = Fraction(v)
     return int(f) if f.denominator == 1 else float(f)
 
 
-def _route_dict(r: Route) -> dict[str, Any]:
+def route_dict(r: Route) -> dict[str, Any]:
     if isinstance(r, EnableSetting):
         return {
             "route": "clock_enable",
             "divide": r.divide,
-            "reached_hz": _json_number(r.f_out),
+            "reached_hz": json_number(r.f_out),
             "error_ppm": round(float(r.ppm), 3),
         }
     assert isinstance(r, Setting)
     return {
         "route": "pll",
         "primitive": r.family.primitive,
-        "parameters": {k: _json_number(v) for k, v in r.parameters().items()},
-        "counters": {k: _json_number(v) for k, v in r.counters().items()},
-        "pfd_hz": _json_number(r.f_pfd),
-        "vco_hz": _json_number(r.f_vco),
-        "reached_hz": _json_number(r.f_out),
+        "parameters": {k: json_number(v) for k, v in r.parameters().items()},
+        "counters": {k: json_number(v) for k, v in r.counters().items()},
+        "pfd_hz": json_number(r.f_pfd),
+        "vco_hz": json_number(r.f_vco),
+        "reached_hz": json_number(r.f_out),
         "error_ppm": round(float(r.ppm), 3),
     }
 
@@ -200,20 +200,20 @@ def plan_dict(plan: ClockPlan) -> dict[str, Any]:
     out: dict[str, Any] = {
         "spec": plan.spec.name,
         "family": plan.family.key if plan.family else None,
-        "input_clock_hz": _json_number(plan.f_board),
-        "pixel_clock_hz": _json_number(t.pixel_clock_hz),
+        "input_clock_hz": json_number(plan.f_board),
+        "pixel_clock_hz": json_number(t.pixel_clock_hz),
         "pixels_per_clock": t.ppc,
-        "core_clock_hz": _json_number(t.core_clock_hz),
-        "tolerance_ppm": _json_number(plan.tolerance * 10**6),
+        "core_clock_hz": json_number(t.core_clock_hz),
+        "tolerance_ppm": json_number(plan.tolerance * 10**6),
         "tolerance_source": plan.tolerance_source,
-        "best": None if best is None else _route_dict(best),
-        "runners_up": [_route_dict(s) for s in plan.settings[1:]],
+        "best": None if best is None else route_dict(best),
+        "runners_up": [route_dict(s) for s in plan.settings[1:]],
         "within_tolerance": plan.within_tolerance,
         "datasheet_clock_range_hz": None if plan.clock_range is None else [
-            _json_number(plan.clock_range.min), _json_number(plan.clock_range.max)],
-        "line_rate_hz": None if plan.line_rate_hz is None else _json_number(plan.line_rate_hz),
-        "refresh_hz": None if plan.refresh_hz is None else _json_number(plan.refresh_hz),
-        "wanted_refresh_hz": _json_number(t.refresh_hz),
+            json_number(plan.clock_range.min), json_number(plan.clock_range.max)],
+        "line_rate_hz": None if plan.line_rate_hz is None else json_number(plan.line_rate_hz),
+        "refresh_hz": None if plan.refresh_hz is None else json_number(plan.refresh_hz),
+        "wanted_refresh_hz": json_number(t.refresh_hz),
         "adjustment": None,
     }
     a = plan.adjustment
@@ -224,10 +224,10 @@ def plan_dict(plan: ClockPlan) -> dict[str, Any]:
             "h_total": a.h_total,
             "v_total": a.v_total,
             "moved": list(a.moved(plan.spec)),
-            "pixel_clock_hz": _json_number(a.pixel_clock_hz),
-            "setting": _route_dict(a.route),
-            "line_rate_hz": _json_number(a.line_rate_hz),
-            "refresh_hz": _json_number(a.refresh_hz),
+            "pixel_clock_hz": json_number(a.pixel_clock_hz),
+            "setting": route_dict(a.route),
+            "line_rate_hz": json_number(a.line_rate_hz),
+            "refresh_hz": json_number(a.refresh_hz),
             "line_rate_error_ppm": round(float(a.line_rate_error * 10**6), 3),
             "refresh_error_ppm": round(float(a.refresh_error * 10**6), 3),
             "line_rate_judged": a.judges_line_rate,
