@@ -193,7 +193,10 @@ def test_view_cli_prints_every_refusal(tmp_path: Path, write_spec) -> None:  # t
     assert not (tmp_path / "v.png").exists()
 
 
-_PICTURE_EXAMPLES = [p for p in EXAMPLES if not pattern_problems(synccore.load(p))]
+# Interlaced examples have no first-light design yet (synccore.write refuses the pattern);
+# their picture is woven from the core's outputs (tests/picture/test_weave.py).
+_PICTURE_EXAMPLES = [p for p in EXAMPLES
+                     if not pattern_problems(s := synccore.load(p)) and not s.interlaced]  # fmt: skip
 # One pattern per example, fixed here so that adding an example leaves the others' goldens alone.
 GOLDEN_PATTERN = {
     "formula_cvt_rb2": "bars",
