@@ -1,26 +1,23 @@
-"""Weaving an interlaced core's two fields into one frame picture.
+"""Weaving an interlaced design's two fields into one frame picture, as a TV does.
 
-An interlaced core sends a frame as two fields (:mod:`synccore.model.fields`): field 0
-carries the frame's even rows, field 1 its odd rows.  A TV shows the fields one after
-the other; a deinterlacer weaves them into the frame: row ``2k`` is field 0's ``k``-th
-active line, row ``2k + 1`` field 1's.
+An interlaced timing sends a frame as two fields (:mod:`synccore.model.fields`): field 0
+carries the frame's even rows, field 1 its odd rows.  A TV tells them apart by where each
+field's vsync starts within its line: the vsync that leads into field 1 starts half a
+line off the hsync leading edge, the one that leads into field 0 with it.  So here, from
+the pins alone: the active lines are grouped into fields by the gaps in de; a field whose
+blanking holds the half-line vsync is field 0, one whose blanking holds the vsync on the
+hsync edge is field 1; the first field 0 and the field 1 after it are woven, field 0's
+``k``-th active line into row ``2k`` and field 1's into row ``2k + 1``, each sampled at
+the pixel clock where de is high.
 
-Interlaced specs have no first-light design yet (:func:`synccore.write` refuses the
-pattern), so the picture is drawn from the core's own outputs: every active line of a
-run (a run of de, as the measurement harness saw it, or as the timing model gives it)
-becomes one row of the field it lies in, woven by field and order, and each of its
-pixels takes the colour of a coordinate pattern (:func:`coordinate_colours`) at the x
-and y the core put out there.  The woven picture equals that pattern drawn at the
-picture's own columns and rows only when the core's y is ``2 x line + field``, its
-field output names the field a line lies in and x steps across the line;
-:func:`check_woven` says where it does not.  480i and 576i send each of their 720
-pixels twice (pixel repetition 2): the picture has the 1440 clocks of a line, as x
-counts them.
+:func:`view_interlaced` runs the first-light design of an interlaced spec, measures the
+line and field rates and the syncs, weaves the frame and compares it with the pattern
+(:func:`synccore.picture.compare.check_pattern`).  480i and 576i send each of their 720
+pixels twice (pixel repetition 2): the picture has the 1440 clocks of a line.
 """
 
 from __future__ import annotations
 
-from collections.abc import Sequence
 from dataclasses import dataclass, field
 from fractions import Fraction
 from pathlib import Path
@@ -28,204 +25,164 @@ from pathlib import Path
 import numpy as np
 from PIL import Image
 
-from synccore.model import Event, Timing
-from synccore.picture.monitor import Monitor
-from synccore.picture.run import ViewError
+from synccore.picture.compare import check_pattern
+from synccore.picture.monitor import Monitor, count, to_8bit
+from synccore.picture.run import Pins, simulate
 from synccore.spec import Spec
-from synccore.timings.modes import library
-from synccore.verification.engines import run_engine
-from synccore.verification.measure import Figure, compare, failures
+from synccore.timings.modes import Mode, library
 
-
-@dataclass(frozen=True)
-class Line:
-    """One active line (a run of de) as the core put it out."""
-
-    start: int  # advancing edges at its first pixel
-    field: int  # the core's field output on its first pixel
-    y: int  # the core's y on its first pixel
-    x_first: int
-    x_last: int  # x on its last cycle
-    steady: bool  # x stepped by pixels_per_clock across it and y held
-    frame_start: bool  # frame_start on its first pixel
+Run = tuple[int, int]
+"""A run of de: (first sample, sample after the last)."""
 
 
 @dataclass
 class Woven:
-    """A frame woven from two fields, and what went wrong weaving it."""
+    """A frame woven from two fields, and what the weaving found."""
 
-    image: Image.Image | None
-    rows: tuple[int, int] = (0, 0)  # active lines found in field 0 and in field 1
+    image: Image.Image | None = None
+    field_lines: tuple[int, int] | None = None  # lines from field 0's first pixel to field 1's, and on
+    half_line: int | None = None  # the half-line vsync's samples after its line's hsync leading edge
     problems: list[str] = field(default_factory=list)
 
 
-def coordinate_colours(x: np.ndarray, y: np.ndarray) -> np.ndarray:
-    """8-bit RGB of the coordinate pattern at ``x``, ``y`` (below 4096): red the low 8 bits
-    of x, green the low 8 bits of y, blue their high 4 bits each; one colour per position."""
-    x, y = np.broadcast_arrays(np.asarray(x, dtype=np.int64), np.asarray(y, dtype=np.int64))
-    return np.stack([x & 0xFF, y & 0xFF, ((x >> 8) & 0xF) << 4 | ((y >> 8) & 0xF)],
-                    axis=-1).astype(np.uint8)  # fmt: skip
+def _level(signal: np.ndarray) -> int:
+    """The level a sync pulses to: the one it holds for the shorter time."""
+    return 1 if int(signal.sum()) * 2 < len(signal) else 0
 
 
-def _coordinates(rgb: np.ndarray) -> tuple[int, int]:
-    """The (x, y) whose coordinate colour ``rgb`` is."""
-    r, g, b = (int(c) for c in rgb)
-    return r | (b >> 4) << 8, g | (b & 0xF) << 8
+def _leading(signal: np.ndarray) -> np.ndarray:
+    """Sample index of each leading edge of ``signal``'s pulses."""
+    on = (signal == _level(signal)).astype(np.int8)
+    return np.flatnonzero(np.diff(on) == 1) + 1
 
 
-def lines_from_events(events: Sequence[Event]) -> list[Line]:
-    """The active lines of a harness run: one per de rise followed by its fall."""
-    out, rise = [], None
-    for e in events:
-        if e.de and rise is None:
-            rise = e
-        elif not e.de and rise is not None:
-            out.append(Line(rise.adv, rise.field, rise.y, rise.x, e.x_last,
-                            e.step_faults == rise.step_faults, bool(rise.frame_start)))  # fmt: skip
-            rise = None
-    return out
+def _runs(de: np.ndarray) -> list[Run]:
+    change = np.diff(np.concatenate([[0], de.astype(np.int8), [0]]))
+    return list(zip(np.flatnonzero(change == 1).tolist(), np.flatnonzero(change == -1).tolist(),
+                    strict=True))  # fmt: skip
 
 
-def lines_from_model(t: Timing) -> list[Line]:
-    """The active lines of one frame as the timing model gives them (no simulation)."""
-    out, field_start = [], 0
-    for f in range(t.fields):
-        for line in range(t.v_active):
-            q = field_start + line * t.h_total
-            first, last = t.outputs_at(q), t.outputs_at(q + t.h_active - 1)
-            out.append(Line(q, first.field, first.y, first.x, last.x, True, bool(first.frame_start)))
-        field_start += t.field_lines(f) * t.h_total
-    return out
-
-
-def _fields(lines: list[Line], line_cycles: int) -> list[list[Line]]:
-    """Lines grouped into fields: a gap of more than a line between two lines ends a field."""
-    groups: list[list[Line]] = []
-    for ln in lines:
-        if not groups or ln.start - groups[-1][-1].start > line_cycles:
+def _fields(runs: list[Run], line: int) -> list[list[Run]]:
+    """Runs of de grouped into fields: a gap of more than a line ends a field."""
+    groups: list[list[Run]] = []
+    for run in runs:
+        if not groups or run[0] - groups[-1][-1][0] > line:
             groups.append([])
-        groups[-1].append(ln)
+        groups[-1].append(run)
     return groups
 
 
-def weave(lines: list[Line], t: Timing) -> Woven:
-    """The first whole frame of ``lines``: field 0 (from its frame_start) then field 1, woven."""
-    groups = _fields(lines, t.h_total)
-    first = next((i for i, g in enumerate(groups[:-1]) if g[0].frame_start), None)
-    if first is None:
-        return Woven(None, problems=["no whole frame: field 0 (from frame_start) and then field 1 "
-                                     "were not both seen"])  # fmt: skip
-    pair = groups[first], groups[first + 1]
-    woven = Woven(None, rows=(len(pair[0]), len(pair[1])))
-    for f, group in enumerate(pair):
-        wrong = [k for k, ln in enumerate(group) if ln.field != f]
-        if wrong:
-            woven.problems.append(f"field output: {len(wrong)} of field {f}'s {len(group)} active lines "
-                                  f"show field {1 - f}, first its line {wrong[0]}")  # fmt: skip
-        unsteady = [k for k, ln in enumerate(group) if not ln.steady]
-        if unsteady:
-            woven.problems.append(f"x/y did not step steadily on {len(unsteady)} of field {f}'s active "
-                                  f"lines, first its line {unsteady[0]}")  # fmt: skip
-    if len(pair[0]) != len(pair[1]):
-        woven.problems.append(f"the fields differ in active lines: {len(pair[0])} and {len(pair[1])}")
-    width = t.spec.horizontal.active
-    picture = np.zeros((2 * max(woven.rows), width, 3), dtype=np.uint8)
-    columns = np.arange(width)
-    for f, group in enumerate(pair):
-        for k, ln in enumerate(group):
-            sent = columns[: max(0, min(width, ln.x_last + t.ppc - ln.x_first))]
-            picture[2 * k + f, : len(sent)] = coordinate_colours(ln.x_first + sent, np.full_like(sent, ln.y))
-    woven.image = Image.fromarray(picture, "RGB")
+def _vsync_column(hs: np.ndarray, vs: np.ndarray, start: int, stop: int) -> int | None:
+    """Samples from the hsync leading edge of its line to the one vsync leading edge in
+    ``[start, stop)``; None when there is not exactly one, or no hsync before it."""
+    mine = vs[(vs >= start) & (vs < stop)]
+    before = hs[hs <= mine[0]] if len(mine) == 1 else hs[:0]
+    return int(mine[0] - before[-1]) if len(before) else None
+
+
+def weave_pins(pins: Pins) -> Woven:
+    """The first whole frame of ``pins`` (field 0, then field 1) woven into one picture."""
+    hs, vs = _leading(pins.hsync), _leading(pins.vsync)
+    if pins.de is None or len(hs) < 2:
+        return Woven(problems=["no de or no hsync: the fields cannot be found"])
+    line = int(np.bincount(np.diff(hs)).argmax())
+    groups = _fields(_runs(pins.de), line)
+    kinds = []  # the field each group is, by the vsync in the blanking after it
+    for i, group in enumerate(groups):
+        stop = groups[i + 1][0][0] if i + 1 < len(groups) else pins.cycles
+        column = _vsync_column(hs, vs, group[-1][1], stop)
+        near = None if column is None else min(column, line - column) <= line // 8
+        half = None if column is None else abs(column - line // 2) <= line // 8
+        kinds.append((0 if half else 1 if near else None, column))
+    pair = next((i for i in range(len(groups) - 1) if kinds[i][0] == 0 and kinds[i + 1][0] == 1), None)
+    if pair is None:
+        return Woven(problems=["no whole frame: no field whose blanking holds a vsync half a line off "
+                               "the hsync leading edge followed by one whose vsync is on it"])  # fmt: skip
+    f0, f1 = groups[pair], groups[pair + 1]
+    woven = Woven(half_line=kinds[pair][1])
+    if pair + 2 < len(groups):
+        woven.field_lines = (round(Fraction(f1[0][0] - f0[0][0], line)),
+                             round(Fraction(groups[pair + 2][0][0] - f1[0][0], line)))  # fmt: skip
+    if len(f0) != len(f1):
+        woven.problems.append(f"the fields differ in active lines: {len(f0)} and {len(f1)}")
+    width = int(np.bincount([b - a for a, b in f0 + f1]).argmax())
+    rows = np.zeros((2 * max(len(f0), len(f1)), width, 3), dtype=np.uint8)
+    levels = tuple(zip((pins.red, pins.green, pins.blue), pins.bits, strict=True))
+    for f, group in enumerate((f0, f1)):
+        for k, (a, b) in enumerate(group):
+            idx = np.arange(a, a + min(width, b - a))
+            rows[2 * k + f, : len(idx)] = np.stack([to_8bit(lv[idx], bits) for lv, bits in levels], axis=-1)
+    woven.image = Image.fromarray(rows, "RGB")
     return woven
 
 
-def check_woven(woven: Woven, t: Timing) -> None:
-    """A problem when the woven picture is not the coordinate pattern at its own columns and
-    rows (the frame's ``2 x v_active`` rows of ``horizontal.active`` pixels)."""
-    if woven.image is None:
-        return
-    got = np.asarray(woven.image)
-    rows, width = t.frame_rows, t.spec.horizontal.active
-    if got.shape[:2] != (rows, width):
-        woven.problems.append(f"the woven picture is {got.shape[1]}x{got.shape[0]}, the frame is "
-                              f"{width}x{rows}")  # fmt: skip
-        return
-    want = coordinate_colours(np.arange(width)[None, :], np.arange(rows)[:, None])
-    bad = np.argwhere((got != want).any(axis=-1))
-    if len(bad):
-        r, c = (int(i) for i in bad[0])
-        x, y = _coordinates(got[r, c])
-        woven.problems.append(f"the woven picture differs from the coordinate pattern on {len(bad)} "
-                              f"pixels, first at column {c}, row {r} (field {r % 2}'s line {r // 2}): "
-                              f"the core put out x = {x}, y = {y} there")  # fmt: skip
+def _syncs(mon: Monitor, pins: Pins) -> Fraction | None:
+    """Line and field rates, sync polarities and widths; the field period in lines."""
+    hs, vs = _leading(pins.hsync), _leading(pins.vsync)
+    if len(hs) < 2 or len(vs) < 3:
+        mon.problems.append("fewer than two hsync or three vsync pulses: no rates")
+        return None
+    mon.line_cycles = int(np.bincount(np.diff(hs)).argmax())
+    mon.line_rate_hz = 1 / (mon.line_cycles * pins.period_s)
+    spacing = np.diff(vs)
+    if spacing.min() != spacing.max():
+        mon.problems.append(f"jitter: vsync to vsync varies from {spacing.min()} to {spacing.max()} clocks")
+    mon.frame_cycles = int(2 * spacing[0])  # two fields
+    mon.refresh_hz = 1 / (int(spacing[0]) * pins.period_s)  # fields per second
+    per_field = Fraction(int(spacing[0]), mon.line_cycles)
+    mon.lines_per_frame = round(2 * per_field)
+    for name, signal in (("hsync", pins.hsync), ("vsync", pins.vsync)):
+        level = _level(signal)
+        on = np.flatnonzero(np.diff((signal == level).astype(np.int8)) == -1) + 1
+        start = _leading(signal)
+        widths = [int(e - s) for s in start for e in on[on > s][:1]]
+        setattr(mon, f"{name}_polarity", "positive" if level else "negative")
+        if name == "hsync" and widths:
+            mon.hsync_cycles = widths[0]
+        elif widths:
+            mon.vsync_lines = round(widths[0] / mon.line_cycles)
+    return per_field
 
 
-def view_interlaced(spec: Spec, *, engine: str, work_dir: Path) -> Monitor:
-    """Run ``spec``'s interlaced core on ``engine`` for two frames and look at it as a TV
-    would: rates and figures measured, the first frame woven from its two fields.
+def _mode(mon: Monitor, pins: Pins) -> Mode | None:
+    """The interlaced library mode of these rates, lines and polarities at the pins' clock."""
+    clock = 1 / pins.period_s
+    for m in library():
+        if (m.interlaced and m.horizontal.total == mon.line_cycles
+                and 2 * m.vertical.total + 1 == mon.lines_per_frame
+                and (m.horizontal.sync_polarity, m.vertical.sync_polarity)
+                == (mon.hsync_polarity, mon.vsync_polarity)
+                and abs(float(m.pixel_clock_hz) - clock) <= clock * 1e-6):  # fmt: skip
+            return m
+    return None
 
-    ``engine`` is a simulator, ``builtin``, or ``model`` (the timing model's outputs, no
-    simulation).  Every figure the run measures is judged against the model (a mismatch
-    is a problem); the picture is the coordinate pattern at the core's x and y, woven and
-    checked by :func:`check_woven`.  :class:`ViewError` when the engine cannot run.
+
+def view_interlaced(spec: Spec, pattern: str, *, engine: str, work_dir: Path) -> Monitor:
+    """Run ``spec``'s first-light design with ``pattern`` on ``engine`` and look at it as a TV
+    would: line and field rates and syncs measured, the mode named, the first frame woven
+    from its two fields and compared with the pattern.
+
+    ``engine`` is one of :data:`synccore.picture.run.VIEW_ENGINES`; :class:`ViewError`
+    when it cannot run.
     """
-    t = Timing(spec)
-    mon = Monitor(period_s=float(1 / spec.pixel_clock_hz))
-    figures = None
-    if engine == "model":
-        lines = lines_from_model(t)
-    else:
-        run = run_engine(spec, engine, frames=2, work_dir=work_dir)
-        if run.error is not None or run.figures is None:
-            raise ViewError(f"{engine}: {run.error}")
-        figures = run.figures
-        lines = lines_from_events(run.events)
-        mon.problems += failures(compare(t, {engine: figures}))
-    _rates(mon, t, figures)
-    woven = weave(lines, t)
-    check_woven(woven, t)
-    mon.image, mon.size = woven.image, (spec.horizontal.active, sum(woven.rows))
+    pins = simulate(spec, pattern, engine=engine, work_dir=work_dir)
+    mon = Monitor(period_s=pins.period_s)
+    per_field = _syncs(mon, pins)
+    woven = weave_pins(pins)
     mon.problems += woven.problems
-    mon.placed_by = ("weaving field 0 (even rows) and field 1 (odd rows) of the core's x/y: "
-                     "a coordinate pattern, as interlaced specs have no first-light design yet")  # fmt: skip
-    if not mon.problems:
-        same = [m for m in library() if m.interlaced and (m.pixel_clock_hz, m.horizontal, m.vertical)
-                == (spec.pixel_clock_hz, spec.horizontal, spec.vertical)]  # fmt: skip
-        mon.mode, mon.also = (same[0], tuple(same[1:])) if same else (None, ())
+    mon.mode = _mode(mon, pins) if per_field is not None else None
+    if per_field is not None and per_field.denominator != 2:
+        mon.problems.append(f"a field is not a whole number of lines and a half: {float(per_field):.3f}")
+    if woven.image is not None:
+        mon.image, mon.size = woven.image, (woven.image.width, woven.image.height)
+        mon.placed_by = "de, field 0 (even rows) and field 1 (odd rows) woven"
+    if per_field is not None and woven.half_line is not None:
+        split = "{} / {}".format(*woven.field_lines) if woven.field_lines else "not seen whole"
+        mon.notes.append(f"interlaced: {mon.refresh_hz:.3f} fields per second, "
+                         f"{(mon.refresh_hz or 0) / 2:.3f} frames per second, a vsync every "
+                         f"{float(per_field):.1f} lines; lines per field {split} (field 0: even rows, "
+                         f"field 1: odd rows); the vsync before field 1 starts "
+                         f"{count(woven.half_line, 'clock')} after its line's hsync leading edge, half "
+                         "a line")  # fmt: skip
+    check_pattern(mon, spec, pattern)
     return mon
-
-
-def _single(figures: dict[str, Figure], key: str) -> str | None:
-    values = figures[key].values
-    return str(values[0]) if len(values) == 1 else None
-
-
-def _rates(mon: Monitor, t: Timing, figures: dict[str, Figure] | None) -> None:
-    """Line and field rates, sync polarities and widths: measured, or the model's (``model``)."""
-    if figures is None:
-        line, frame = t.h_total * t.ppc, t.frame_lines
-        hs, vs = t.spec.horizontal, t.spec.vertical
-        mon.hsync_polarity, mon.hsync_cycles = hs.sync_polarity, hs.sync
-        mon.vsync_polarity, mon.vsync_lines = vs.sync_polarity, vs.sync
-        split = f"{t.field_lines(0)} / {t.field_lines(1)}"
-    else:
-        texts = {key: _single(figures, key) for key in ("line_total", "frame_total", "hsync_width",
-                 "hsync_polarity", "vsync_polarity", "vsync_width", "field_lines")}  # fmt: skip
-        if None in (texts["line_total"], texts["frame_total"]):
-            return
-        line, frame = int(str(texts["line_total"])), int(str(texts["frame_total"]))
-        mon.hsync_polarity, mon.vsync_polarity = texts["hsync_polarity"], texts["vsync_polarity"]
-        hs_width = texts["hsync_width"] or ""
-        mon.hsync_cycles = int(hs_width) if hs_width.isdigit() else None
-        width = (texts["vsync_width"] or "").split(" / ")[0]
-        mon.vsync_lines = int(width) if width.isdigit() else None
-        split = texts["field_lines"] or "varying"
-    mon.line_cycles, mon.lines_per_frame = line, frame
-    mon.line_rate_hz = 1 / (line * mon.period_s)
-    field_rate = Fraction(t.spec.pixel_clock_hz) * 2 / (line * frame)
-    mon.refresh_hz = float(field_rate)
-    mon.frame_cycles = line * frame
-    mon.notes.append(f"interlaced: {float(field_rate):.3f} fields per second, {float(field_rate) / 2:.3f} "
-                     f"frames per second; lines per field {split} (field 0: even rows, field 1: odd "
-                     f"rows); the vsync before field 1 comes half a line ({line // 2} clocks) after "
-                     "the line's hsync leading edge")  # fmt: skip

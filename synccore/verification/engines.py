@@ -38,7 +38,6 @@ class EngineRun:
     cycles: int = 0
     log: Path | None = None
     waves: list[Path] = field(default_factory=list)
-    events: list[Event] = field(default_factory=list, repr=False)  # what the harness saw
 
 
 @dataclass
@@ -121,7 +120,6 @@ def run_engine(
     if events is None:
         return run
     run.cycles = events[-1].adv if events else 0
-    run.events = events
     run.figures = measure(events, t)
     if progress is not None:
         progress(engine, frames)

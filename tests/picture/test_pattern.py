@@ -193,10 +193,7 @@ def test_view_cli_prints_every_refusal(tmp_path: Path, write_spec) -> None:  # t
     assert not (tmp_path / "v.png").exists()
 
 
-# Interlaced examples have no first-light design yet (synccore.write refuses the pattern);
-# their picture is woven from the core's outputs (tests/picture/test_weave.py).
-_PICTURE_EXAMPLES = [p for p in EXAMPLES
-                     if not pattern_problems(s := synccore.load(p)) and not s.interlaced]  # fmt: skip
+_PICTURE_EXAMPLES = [p for p in EXAMPLES if not pattern_problems(synccore.load(p))]
 # One pattern per example, fixed here so that adding an example leaves the others' goldens alone.
 GOLDEN_PATTERN = {
     "formula_cvt_rb2": "bars",
@@ -206,6 +203,7 @@ GOLDEN_PATTERN = {
     "panel_ranges": "edges",
     "monitor_1280x720": "bars",  # 2 pixels per clock, lead 2
     "standard_1080p5994": "gradient",  # 2 pixels per clock
+    "console_480i": "checker",  # interlaced: y is 2 x line + field
 }
 
 
