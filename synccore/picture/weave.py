@@ -72,25 +72,33 @@ def _fields(runs: list[Run], line: int) -> list[list[Run]]:
     return groups
 
 
-def _vsync_column(hs: np.ndarray, vs: np.ndarray, start: int, stop: int) -> int | None:
-    """Samples from the hsync leading edge of its line to the one vsync leading edge in
-    ``[start, stop)``; None when there is not exactly one, or no hsync before it."""
+def _vsync_column(marks: np.ndarray, vs: np.ndarray, start: int, stop: int) -> int | None:
+    """Samples from the last of ``marks`` (where lines are counted from) to the one vsync
+    leading edge in ``[start, stop)``; None when there is not exactly one, or no mark before it."""
     mine = vs[(vs >= start) & (vs < stop)]
-    before = hs[hs <= mine[0]] if len(mine) == 1 else hs[:0]
+    before = marks[marks <= mine[0]] if len(mine) == 1 else marks[:0]
     return int(mine[0] - before[-1]) if len(before) else None
 
 
-def weave_pins(pins: Pins) -> Woven:
-    """The first whole frame of ``pins`` (field 0, then field 1) woven into one picture."""
+def weave_pins(pins: Pins, *, vsync_align: str = "hsync") -> Woven:
+    """The first whole frame of ``pins`` (field 0, then field 1) woven into one picture.
+
+    ``vsync_align`` (the spec's ``core.vsync_align``) is where the vsync on the edge starts:
+    with the hsync leading edge (``hsync``, as CTA-861 has it and a TV expects), or at the
+    start of a line (``line``: counted from the column where de rises).
+    """
     hs, vs = _leading(pins.hsync), _leading(pins.vsync)
     if pins.de is None or len(hs) < 2:
         return Woven(problems=["no de or no hsync: the fields cannot be found"])
     line = int(np.bincount(np.diff(hs)).argmax())
-    groups = _fields(_runs(pins.de), line)
+    runs = _runs(pins.de)
+    groups = _fields(runs, line)
+    marks = hs if vsync_align == "hsync" or not runs else runs[0][0] % line + line * np.arange(
+        pins.cycles // line + 1)  # fmt: skip
     kinds = []  # the field each group is, by the vsync in the blanking after it
     for i, group in enumerate(groups):
         stop = groups[i + 1][0][0] if i + 1 < len(groups) else pins.cycles
-        column = _vsync_column(hs, vs, group[-1][1], stop)
+        column = _vsync_column(marks, vs, group[-1][1], stop)
         near = None if column is None else min(column, line - column) <= line // 8
         half = None if column is None else abs(column - line // 2) <= line // 8
         kinds.append((0 if half else 1 if near else None, column))
@@ -168,7 +176,7 @@ def view_interlaced(spec: Spec, pattern: str, *, engine: str, work_dir: Path) ->
     pins = simulate(spec, pattern, engine=engine, work_dir=work_dir)
     mon = Monitor(period_s=pins.period_s)
     per_field = _syncs(mon, pins)
-    woven = weave_pins(pins)
+    woven = weave_pins(pins, vsync_align=spec.core.vsync_align)
     mon.problems += woven.problems
     mon.mode = _mode(mon, pins) if per_field is not None else None
     if per_field is not None and per_field.denominator != 2:
@@ -182,7 +190,8 @@ def view_interlaced(spec: Spec, pattern: str, *, engine: str, work_dir: Path) ->
                          f"{(mon.refresh_hz or 0) / 2:.3f} frames per second, a vsync every "
                          f"{float(per_field):.1f} lines; lines per field {split} (field 0: even rows, "
                          f"field 1: odd rows); the vsync before field 1 starts "
-                         f"{count(woven.half_line, 'clock')} after its line's hsync leading edge, half "
-                         "a line")  # fmt: skip
+                         f"{count(woven.half_line, 'clock')} after its line's "
+                         f"{'hsync leading edge' if spec.core.vsync_align == 'hsync' else 'start'}, "
+                         "half a line")  # fmt: skip
     check_pattern(mon, spec, pattern)
     return mon

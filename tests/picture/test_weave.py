@@ -106,17 +106,27 @@ def test_rows_of_the_wrong_field_are_caught() -> None:
     assert "first at column 1, line 1:" in mon.problems[0], mon.problems
 
 
+# Made up: 2 pixels per clock, clock enable, vsync at the line start, a port prefix.
+SMALL_OPTS = samples.spec_text("il_view_opts", "10 MHz", (48, 4, 6, 6, "positive"), (32, 2, 2, 3, "negative"),
+                               core={"pixels_per_clock": 2, "clock_enable": True, "vsync_align": "line"},
+                               prefix="tv_", interlaced=True)  # fmt: skip
+ENGINES = [(engine, case) for engine in ("model", "icarus", "ghdl", "verilator", "builtin")
+           for case in ("plain", "opts")]  # fmt: skip
+
+
 @pytest.mark.sim
-@pytest.mark.parametrize("engine", ["icarus", "ghdl", "verilator", "builtin"])
-def test_simulated_design_weaves_into_the_pattern(engine: str, tmp_path: Path,
+@pytest.mark.parametrize(("engine", "case"), ENGINES, ids=[f"{e}-{c}" for e, c in ENGINES])
+def test_simulated_design_weaves_into_the_pattern(engine: str, case: str, tmp_path: Path,
                                                   need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
-    if engine != "builtin":
+    if engine not in ("builtin", "model"):
         need_tool(engine)
-    spec = synccore.loads(SMALL, "il.yaml")
+    spec = synccore.loads(SMALL if case == "plain" else SMALL_OPTS, "il.yaml")
     mon = view_interlaced(spec, "checker", engine=engine, work_dir=tmp_path)
     assert mon.problems == []
     assert mon.image is not None
     assert np.array_equal(np.asarray(mon.image), np.asarray(expected_image("checker", 48, 64)))
+    where = "hsync leading edge" if case == "plain" else "start"
+    assert f"starts 32 clocks after its line's {where}, half a line" in mon.notes[0]  # 64 / 2
 
 
 @pytest.mark.sim
