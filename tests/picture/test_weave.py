@@ -147,6 +147,10 @@ def test_view_cli_refuses_board_and_link_for_interlaced(tmp_path: Path) -> None:
     result = CliRunner().invoke(main, ["view", str(EXAMPLE), "--link", "dvi", "-o", str(tmp_path / "x.png")])
     assert result.exit_code == 2
     assert "--board and --link are progressive only so far" in result.output
+    result = CliRunner().invoke(main, ["view", str(EXAMPLE), "--sim", "model", "--monitor-range",
+                                       "15-16kHz,50-61Hz", "-o", str(tmp_path / "x.png")])  # fmt: skip
+    assert result.exit_code == 2
+    assert "--edid, --dac and --monitor-range do not apply to an interlaced spec yet" in result.output
     assert not (tmp_path / "x.png").exists()
 
 
