@@ -115,13 +115,13 @@ def write(
     synccore generated it, or with ``force=True``.
 
     Raises :class:`SpecError` with every problem when the spec cannot have what was asked
-    (an interlaced spec: no test benches or pattern yet; a minimum active area for the
+    (interlaced: no test benches, board top or DVI design yet; a minimum active area for the
     pattern; ``core.clock_enable`` for the clock-enable route
     and iCE40's link) or a file may not be replaced; :class:`ToolError` for a plan with no
     setting, or refused as above; ``ValueError`` for an unknown pattern or a plan made for
     another spec.  Nothing is written when anything is raised.
     """
-    _check_request(spec, testbench, pattern, clock, accept_clock_error)
+    _check_request(spec, testbench, pattern, clock, accept_clock_error, linked=link is not None)
     if link is not None:
         _check_link(spec, pattern, clock, link, accept_clock_error, accept_io_limit)
     artifacts = core_artifacts(spec)
@@ -155,11 +155,11 @@ def _check_link(spec: Spec, pattern: str | None, clock: ClockPlan | None, link: 
 
 
 def _check_request(spec: Spec, testbench: bool, pattern: str | None, clock: ClockPlan | None,
-                   accept_clock_error: bool) -> None:  # fmt: skip
+                   accept_clock_error: bool, *, linked: bool = False) -> None:  # fmt: skip
     """Raise what :func:`write` documents when ``spec`` cannot have the files asked for."""
     problems: list[Problem] = []
-    if spec.interlaced and (testbench or pattern is not None):
-        what = "the stand-alone test benches" if testbench else "the test-pattern design"
+    if spec.interlaced and (testbench or (pattern is not None and (clock is not None or linked))):
+        what = "the stand-alone test benches" if testbench else "the board top and DVI design"
         problems.append(Problem(spec.location("interlaced"), "interlaced",
                                 f"{what} are progressive only so far: verify an interlaced "
                                 "core with synccore verify, got true"))  # fmt: skip

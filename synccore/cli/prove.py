@@ -9,8 +9,8 @@ from pathlib import Path
 import click
 
 from synccore.api import ProofResult, prove
-from synccore.cli._common import FAILED, fail, load_spec
-from synccore.errors import ToolError
+from synccore.cli._common import FAILED, fail, fail_spec, load_spec
+from synccore.errors import SpecError, ToolError
 from synccore.verification.prove import formal_missing
 
 
@@ -83,6 +83,8 @@ def prove_command(spec: str, core: str | None, depth: int, timeout: float, as_js
                        work_dir=Path(work_dir) if work_dir else None)  # fmt: skip
     except ToolError as err:
         fail(str(err))
+    except SpecError as err:  # an interlaced spec: not proved yet
+        fail_spec(err)
     if as_json:
         click.echo(_as_json(result))
     else:

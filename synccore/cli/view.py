@@ -118,7 +118,8 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     else:
         if spec is None:
             raise click.UsageError("give a SPEC, or --vcd with --map")
-        s = _load(spec)
+        if (s := _load(spec, woven=True)).interlaced:
+            return _view_woven(s, pattern, engine, work_dir, out_png, force, bool(edid_file or dac or rng))
         title = f"{s.name} ({pattern}) on {engine}"
         pins = _simulate(s, pattern, engine, work_dir)
     name = s.name if s is not None and not vcd else Path(vcd or "view").stem
@@ -134,6 +135,23 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
     image = _through_dac(mon, s, dac) if dac is not None and s is not None else mon.image
     target = Path(out_png or f"{name}_view.png")
     _show(mon, title, target, s, tmds=link is not None, image=image, force=force)
+    if mon.problems:
+        fail((f"PROBLEM {problem}" for problem in mon.problems), code=FAILED)
+
+
+def _view_woven(s: Spec, pattern: str, engine: str, work_dir: str | None, out_png: str | None,
+                force: bool, judged: bool) -> None:  # fmt: skip
+    """An interlaced spec: its first-light design's two fields woven into one frame (picture/weave.py).
+    ``judged``: --edid, --dac or --monitor-range was given, which do not apply yet."""
+    from synccore.picture.weave import view_interlaced
+
+    if judged:
+        fail("--edid, --dac and --monitor-range do not apply to an interlaced spec yet")
+
+    mon = _in_folder(work_dir, "synccore-view-",
+                     lambda folder: view_interlaced(s, pattern, engine=engine, work_dir=folder))
+    _show(mon, f"{s.name} ({pattern}, interlaced, woven) on {engine}", Path(out_png or f"{s.name}_view.png"),
+          s, image=mon.image, force=force)  # fmt: skip
     if mon.problems:
         fail((f"PROBLEM {problem}" for problem in mon.problems), code=FAILED)
 
@@ -217,11 +235,15 @@ def _pins_from_vcd(vcd: str, mapping: str | None) -> Pins:
         fail(str(err))
 
 
-def _load(spec: str) -> Spec:
-    """The spec, if it loads and its first-light pattern can be drawn; exit 2 otherwise."""
+def _load(spec: str, *, woven: bool = False) -> Spec:
+    """The spec, if it loads and its first-light pattern can be drawn; exit 2 otherwise.
+    ``woven``: the caller weaves an interlaced spec's fields; the others refuse it."""
     from synccore.model.pattern import pattern_problems
 
     s = load_spec(spec)
+    if s.interlaced and not woven:
+        fail("--board and --link are progressive only so far: view an interlaced spec without "
+             "them (its two fields woven into one frame)")  # fmt: skip
     problems = pattern_problems(s)
     if problems:
         fail_spec(SpecError(problems))

@@ -66,8 +66,12 @@ def pattern_problems(spec: Spec) -> list[Problem]:
 
 
 def picture_size(spec: Spec) -> tuple[int, int]:
-    """Width and height of the pattern's picture: the active area divided by core.scale."""
-    return spec.horizontal.active // spec.core.scale, spec.vertical.active // spec.core.scale
+    """Width and height of the pattern's picture: the active area divided by core.scale.
+
+    Interlaced: the whole frame's rows, both fields' (y counts them: 2 x line + field).
+    """
+    rows = spec.vertical.active * (2 if spec.interlaced else 1)
+    return spec.horizontal.active // spec.core.scale, rows // spec.core.scale
 
 
 def columns_per_cycle(spec: Spec) -> int:

@@ -17,15 +17,16 @@ def check_pattern(mon: Monitor, spec: Spec, pattern: str) -> None:
     w, h = picture_size(spec)
     table = np.array([[levels(pattern, x, y, w, h, spec.color) for x in range(w)] for y in range(h)],
                      dtype=np.int64)  # fmt: skip
-    s = Timing(spec).scale_shift
-    ys, xs = np.arange(spec.vertical.active) >> s, np.arange(spec.horizontal.active) >> s
+    t = Timing(spec)
+    s = t.scale_shift
+    ys, xs = np.arange(t.frame_rows) >> s, np.arange(spec.horizontal.active) >> s  # both fields' rows
     want = table[ys[:, None], xs[None, :]]
     bits = (spec.color.red, spec.color.green, spec.color.blue)
     want8 = np.stack([to_8bit(want[..., c], bits[c]) for c in range(3)], axis=-1)
     got = np.asarray(mon.image.convert("RGB"))
     if got.shape != want8.shape:
         mon.problems.append(f"the picture is {mon.image.width}x{mon.image.height}, the {pattern} pattern "
-                            f"is {spec.horizontal.active}x{spec.vertical.active}")  # fmt: skip
+                            f"is {spec.horizontal.active}x{t.frame_rows}")  # fmt: skip
         return
     bad = np.argwhere((got != want8).any(axis=-1))
     if len(bad):

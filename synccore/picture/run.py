@@ -77,8 +77,11 @@ class Pins:
 
 
 def cycles_needed(spec: Spec) -> int:
-    """Enough core clock cycles for two vsync leading edges and the whole frame between them."""
+    """Enough core clock cycles for two vsync leading edges and the whole frame between them;
+    interlaced: both fields from reset and the next field 0's vsync, three vsyncs (picture/weave.py)."""
     t = Timing(spec)
+    if t.interlaced:
+        return t.frame_cycles + t.vsync_starts()[0] + 2 * t.h_total
     return (t.v_sync_start + t.v_total + 3) * t.h_total
 
 
@@ -291,7 +294,7 @@ def model_pins(spec: Spec, pattern: str, cycles: int) -> Pins:
     first = (h * n) >> s  # picture column of each cycle's first pixel
     offsets = np.array([pixel_column(0, i, spec.core.scale) for i in range(n)], dtype=np.int64)
     column = np.add.outer(first, offsets).reshape(-1)
-    row = np.repeat(v >> s, n)
+    row = np.repeat((v * t.fields + t.field_of(q)) >> s, n)  # interlaced: 2 x line + field
     rgb = np.zeros((cycles * n, 3), dtype=np.int64)
     rgb[de] = table[row[de], column[de]]
     return Pins(float(1 / spec.pixel_clock_hz), hs, vs, de.astype(np.int64), rgb[:, 0], rgb[:, 1],

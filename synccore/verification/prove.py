@@ -21,7 +21,7 @@ from pathlib import Path
 
 from synccore.emit import render_verilog
 from synccore.emit.formal import PROPERTY_NAMES, FormalContext, build_formal_context, render_properties
-from synccore.errors import ToolError
+from synccore.errors import Problem, SpecError, ToolError
 from synccore.model import Timing
 from synccore.spec import Spec
 from synccore.verification._sby import SbyRun, missing_programs, run_job, write_job
@@ -89,6 +89,11 @@ def formal_missing() -> str | None:
     return f"formal proof tools not found ({', '.join(missing)}): {FORMAL_HINT}"
 
 
+INTERLACE_REFUSED = ("formal proofs are progressive only so far: verify an interlaced core "
+                     "with synccore verify, got true")
+"""Why an interlaced spec is not proved (its property wrapper has no fields yet)."""
+
+
 def prove(spec: Spec, *, core: str | Path | None = None, depth: int = 2,
           work_dir: str | Path | None = None, timeout: float = 300.0) -> ProofResult:  # fmt: skip
     """Prove ``spec``'s Verilog core, or the core in the file ``core``, against the timing model.
@@ -103,7 +108,8 @@ def prove(spec: Spec, *, core: str | Path | None = None, depth: int = 2,
 
     Raises :class:`ToolError` when the proof tools are missing (install them with
     ``pip install 'synccore[formal]'``) or a job cannot run (e.g. the core does not
-    parse), ``FileNotFoundError`` for a missing ``core``, ``ValueError`` for depth < 1.
+    parse), ``FileNotFoundError`` for a missing ``core``, ``ValueError`` for depth < 1,
+    :class:`SpecError` for an interlaced spec (the properties are progressive only so far).
     """
     text = Path(core).read_text(encoding="utf-8") if core is not None else None
     return prove_text(spec, text, depth=depth, timeout=timeout,
@@ -120,6 +126,8 @@ def prove_text(spec: Spec, core_text: str | None, *, ports_only: bool = True, de
     """
     if depth < 1:
         raise ValueError(f"depth must be at least 1, got {depth}")
+    if spec.interlaced:
+        raise SpecError([Problem(spec.location("interlaced"), "interlaced", INTERLACE_REFUSED)])
     problem = formal_missing()
     if problem:
         raise ToolError(problem)

@@ -28,8 +28,13 @@ def test_harness_golden(example: Path, language: str) -> None:
     golden_files.check(f"bench/{example.stem}_harness{LANGUAGES[language]}", text)
 
 
+# The stand-alone benches are progressive only so far: synccore.write refuses them for
+# interlaced specs, so they have no golden text.
+_PROGRESSIVE = [p for p in EXAMPLES if not synccore.load(p).interlaced]
+
+
 @pytest.mark.parametrize("language", list(LANGUAGES))
-@pytest.mark.parametrize("example", EXAMPLES, ids=[p.stem for p in EXAMPLES])
+@pytest.mark.parametrize("example", _PROGRESSIVE, ids=[p.stem for p in _PROGRESSIVE])
 def test_testbench_golden(example: Path, language: str) -> None:
     text = render_testbench(synccore.load(example), language)
     golden_files.check(f"bench/{example.stem}_tb{LANGUAGES[language]}", text)

@@ -104,6 +104,9 @@ WIDE_FIRST_LIGHT = {
                                                                                        "active: 64"),
     "ppc2_scale4": _wide_first_light(2, {"scale": 4, "lead": 1}, "fl_ppc2_s4")
     .replace("active: 64", "active: 128").replace("active: 40", "active: 128"),
+    # interlaced: the top leaves the core's field port unused (y already holds the field)
+    "interlaced": _wide_first_light(1, {}, "fl_il") + "interlaced: true\n",
+    "interlaced_ppc2_ce": _wide_first_light(2, {"clock_enable": True}, "fl_il_ppc2") + "interlaced: true\n",
 }
 WIDE_CASES = [(case, pattern) for case in WIDE_FIRST_LIGHT for pattern in PATTERNS]
 

@@ -203,6 +203,7 @@ GOLDEN_PATTERN = {
     "panel_ranges": "edges",
     "monitor_1280x720": "bars",  # 2 pixels per clock, lead 2
     "standard_1080p5994": "gradient",  # 2 pixels per clock
+    "console_480i": "checker",  # interlaced: y is 2 x line + field
 }
 
 
