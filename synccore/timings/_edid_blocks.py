@@ -40,7 +40,8 @@ class DetailedTiming:
     def refusal(self) -> str:
         """Why this descriptor cannot become a spec ("" when it can)."""
         if self.interlaced:
-            return "interlaced: synccore generates progressive rasters only"
+            return ("interlaced: an interlaced detailed timing is not read yet; the CTA-861 interlaced "
+                    "formats are in the library (synccore modes i@)")
         if self.stereo:
             return f"stereo ({self.stereo}): synccore generates one picture per frame"
         if self.sync_type != "digital separate":

@@ -5,8 +5,9 @@ syncs and a pixel clock.  Arithmetic is exact (fractions), with the rounding
 steps the standards prescribe (ROUNDDOWN / ROUND to a cell or a clock step), so
 results do not depend on floating point.
 
-Margins and interlace are not supported: synccore cores are progressive and
-draw no border.  When the width is not a multiple of the formula's character
+Margins and the formulas' interlaced variants are not supported: the formulas give
+progressive timings with no border (interlaced formats come from the CTA-861 library).
+When the width is not a multiple of the formula's character
 cell, the formula runs on the rounded width and the requested width is kept by
 moving the difference into the front porch (the line total and the clock stay
 as the formula computed them); the result says so in its notes.
