@@ -29,6 +29,7 @@ from __future__ import annotations
 import bisect
 from collections.abc import Iterator, Sequence
 from dataclasses import dataclass
+from functools import cached_property
 
 from synccore.model.fields import bits_for
 from synccore.model.timing import Outputs, Timing
@@ -62,8 +63,9 @@ class MultiTiming:
         if len(self.spec.modes) < 2:
             raise ValueError(f"a multi-mode spec lists at least 2 modes, got {len(self.spec.modes)}")
 
-    @property
+    @cached_property
     def modes(self) -> tuple[Timing, ...]:
+        """Each mode's timing model, in the order of the spec's ``modes:``."""
         return tuple(Timing(m) for m in self.spec.modes)
 
     @property
@@ -130,6 +132,16 @@ class MultiTiming:
             t = timings[frame.mode]
             for q in range(min(frame.cycles, edges - frame.first_edge + 1)):
                 yield t.outputs_at(q), frame.mode
+
+
+    def output_at(self, frames: Sequence[Frame], edge: int) -> tuple[Outputs, int]:
+        """(outputs, mode_active) after advancing edge ``edge`` of a run cut into ``frames``
+        (from :meth:`frames` for at least that many edges)."""
+        i = bisect.bisect_right([f.first_edge for f in frames], edge) - 1
+        if i < 0:
+            return self.reset_outputs(), 0
+        frame = frames[i]
+        return self.modes[frame.mode].outputs_at(edge - frame.first_edge), frame.mode
 
 
 def multi_timing(spec: Spec) -> MultiTiming:

@@ -11,7 +11,8 @@ from synccore.spec import Spec
 from synccore.verification.simulate import SimResult, run_bench
 from synccore.verification.switching import switching_sequence
 
-BENCH = "multimode_bench"
+BENCHES = {"cycles": "multimode_bench", "events": "multimode_events_bench"}
+"""Every cycle read by Python (small modes, irregular clock enable), or only the output changes."""
 
 
 @dataclass(frozen=True)
@@ -29,8 +30,13 @@ class SwitchingRun:
 
 
 def run_switching(spec: Spec, *, simulator: str, run_dir: Path, seed: int = 1, changes: int = 20,
-                  vhdl_std: str = "08", core_text: str | None = None) -> SwitchingRun:  # fmt: skip
-    """Run ``changes`` seeded mode changes through ``spec``'s multi-mode core on ``simulator``."""
+                  vhdl_std: str = "08", core_text: str | None = None,
+                  bench: str = "cycles") -> SwitchingRun:  # fmt: skip
+    """Run ``changes`` seeded mode changes through ``spec``'s multi-mode core on ``simulator``.
+
+    ``bench``: ``"cycles"`` reads every cycle (for small modes), ``"events"`` wakes only when
+    an output changes (full-size modes; the clock enable held at 1).
+    """
     mt = MultiTiming(spec)
     sequence, edges = switching_sequence(mt, seed=seed, changes=changes, unknown=True)
     run_dir.mkdir(parents=True, exist_ok=True)
@@ -38,7 +44,7 @@ def run_switching(spec: Spec, *, simulator: str, run_dir: Path, seed: int = 1, c
     plan.write_text(json.dumps({"changes": sequence, "edges": edges}))
     frames_json = run_dir / "frames.json"
     frames_json.unlink(missing_ok=True)
-    result = run_bench(spec, simulator=simulator, run_dir=run_dir, bench=BENCH, vhdl_std=vhdl_std,
+    result = run_bench(spec, simulator=simulator, run_dir=run_dir, bench=BENCHES[bench], vhdl_std=vhdl_std,
                        core_text=core_text,
                        env={"SYNCCORE_SWITCHING": str(plan.resolve()),
                             "SYNCCORE_FRAMES_JSON": str(frames_json.resolve()),

@@ -71,6 +71,32 @@ def compare_cycles(samples: Sequence[Sample], mt: MultiTiming, changes: Sequence
     return out
 
 
+def compare_segments(run: Sequence[Segment], mt: MultiTiming, changes: Sequence[Change],
+                     limit: int = 10) -> list[str]:  # fmt: skip
+    """One line per run of constant outputs (at most ``limit``) whose ends differ from the model:
+    every output on its first cycle, every output but x on its last."""
+    if not run:
+        return []
+    frames = mt.frames(changes, run[-1].first_edge + run[-1].length - 1)
+    out = []
+    for seg in run:
+        last = seg.first_edge + seg.length - 1
+        for edge, skip in ((seg.first_edge, ()), (last, ("x",))):
+            want, want_mode = mt.output_at(frames, edge)
+            got = seg.outputs
+            diff = {f.name: (getattr(got, f.name), getattr(want, f.name)) for f in fields(Outputs)
+                    if f.name not in skip and getattr(got, f.name) != getattr(want, f.name)}  # fmt: skip
+            if seg.mode != want_mode:
+                diff["mode_active"] = (seg.mode, want_mode)
+            if diff:
+                out.append(f"edge {edge} (run of {seg.length} cycles from edge {seg.first_edge}): "
+                           f"got/want {diff}")  # fmt: skip
+                break
+        if len(out) >= limit:
+            break
+    return out
+
+
 @dataclass(frozen=True)
 class FrameFigures:
     """What one frame of a run measured: where it began, its mode, its lines and pulses."""
@@ -86,39 +112,69 @@ class FrameFigures:
     open_at_end: tuple[str, ...]  # the signals whose pulse runs over the end of the frame
 
 
-def _runs(levels: list[int], level: int) -> tuple[tuple[int, ...], bool]:
-    """The lengths of the runs at ``level`` that end inside ``levels`` (one that was already
-    running when they begin counts from there), and whether a run is still open at the end."""
-    runs, start = [], None
-    for i, value in enumerate(levels):
+@dataclass(frozen=True)
+class Segment:
+    """Cycles in a row whose outputs other than x (and whose ``mode_active``) do not change."""
+
+    first_edge: int
+    length: int
+    outputs: Outputs  # on the segment's first cycle
+    mode: int
+
+
+def _key(o: Outputs, mode: int) -> tuple[int, ...]:
+    return (o.hsync, o.vsync, o.de, o.hblank, o.vblank, o.y, o.line_start, o.frame_start, mode)
+
+
+def segments(samples: Sequence[Sample]) -> list[Segment]:
+    """Per-cycle samples (edge 1 first) run-length coded; x alone does not start a segment."""
+    out: list[Segment] = []
+    for k, (o, mode) in enumerate(samples):
+        if out and _key(out[-1].outputs, out[-1].mode) == _key(o, mode):
+            last = out[-1]
+            out[-1] = Segment(last.first_edge, last.length + 1, last.outputs, last.mode)
+        else:
+            out.append(Segment(k + 1, 1, o, mode))
+    return out
+
+
+def _runs(levels: list[tuple[int, int]], level: int) -> tuple[tuple[int, ...], bool]:
+    """The lengths of the runs at ``level`` in (length, level) pieces that end inside them (one
+    already running where they begin counts from there), and whether one is open at the end."""
+    runs, start, at = [], None, 0
+    for length, value in levels:
         if value == level and start is None:
-            start = i
+            start = at
         elif value != level and start is not None:
-            runs.append(i - start)
+            runs.append(at - start)
             start = None
+        at += length
     return tuple(runs), start is not None
 
 
-def measure_frames(samples: Sequence[Sample], mt: MultiTiming) -> list[FrameFigures]:
+def measure_frames(run: Sequence[Segment], mt: MultiTiming) -> list[FrameFigures]:
     """Every whole frame of a run (between two ``frame_start`` pulses), measured."""
-    starts = [k for k, (o, _) in enumerate(samples) if o.frame_start]
+    starts = [i for i, seg in enumerate(run) if seg.outputs.frame_start]
     modes = mt.modes
     out = []
     for index, (a, b) in enumerate(zip(starts, starts[1:], strict=False)):
-        frame = samples[a:b]
-        mode = frame[0][1]
+        frame = run[a:b]
+        mode = frame[0].mode
         t = modes[mode] if mode < len(modes) else modes[0]
-        line_starts = [i for i in range(len(frame))
-                       if frame[i][0].hblank == 0 and (i == 0 or frame[i - 1][0].hblank == 1)]  # fmt: skip
-        bounds = [*line_starts, len(frame)]
-        runs = {
-            "hsync": _runs([o.hsync for o, _ in frame], t.hsync_active_level),
-            "vsync": _runs([o.vsync for o, _ in frame], t.vsync_active_level),
-            "de": _runs([o.de for o, _ in frame], 1),
-        }
+        first = frame[0].first_edge
+        line_starts = [seg.first_edge - first for i, seg in enumerate(frame) if seg.outputs.hblank == 0
+                       and (i == 0 or frame[i - 1].outputs.hblank == 1)]  # fmt: skip
+        bounds = [*line_starts, run[b].first_edge - first]
+
+        def levels(name: str, frame: Sequence[Segment] = frame) -> list[tuple[int, int]]:
+            return [(seg.length, getattr(seg.outputs, name)) for seg in frame]
+
+        runs = {"hsync": _runs(levels("hsync"), t.hsync_active_level),
+                "vsync": _runs(levels("vsync"), t.vsync_active_level),
+                "de": _runs(levels("de"), 1)}  # fmt: skip
         out.append(FrameFigures(
-            index=index, first_edge=a + 1, mode=mode,
-            modes_seen=tuple(sorted({m for _, m in frame})),
+            index=index, first_edge=first, mode=mode,
+            modes_seen=tuple(sorted({seg.mode for seg in frame})),
             lines=tuple(y - x for x, y in zip(bounds, bounds[1:], strict=False)),
             hsyncs=runs["hsync"][0], vsyncs=runs["vsync"][0], de_runs=runs["de"][0],
             open_at_end=tuple(name for name, (_, still) in runs.items() if still),
@@ -139,7 +195,7 @@ def _judge(f: FrameFigures, t: Timing) -> list[str]:
         for width in sorted(set(got) - {want}):
             kind = ("short" if what == "line" else "runt") if width < want else "long"
             out.append(f"a {kind} {what} of {width} cycles, mode {f.mode} expects {want}")
-    out += [f"a {name} pulse runs over the end of the frame" for name in f.open_at_end]
+    out += [f"the {name} pulse runs over the end of the frame" for name in f.open_at_end]
     for what, got, want in (("hsync pulses", len(f.hsyncs), t.v_total),
                             ("vsync pulses", len(f.vsyncs), 1),
                             ("de runs", len(f.de_runs), t.v_active)):  # fmt: skip
