@@ -34,8 +34,8 @@ def switching_sequence(mt: MultiTiming, *, seed: int, changes: int = 20,
     Each change picks another mode than the input held; the gaps between changes range from
     a fifth of the longest frame to one and a half of it, so some changes are overtaken
     before a frame ends (they must have no effect) and some frames repeat their mode.
-    ``unknown``: one change (the middle one) writes a value that names no mode, when the
-    input's width has one.  The run ends two longest frames after the last change.
+    ``unknown``: one change (the middle one, of three or more) writes a value that names no
+    mode, when the input's width has one.  The run ends two longest frames after the last change.
     """
     rng = random.Random(seed)
     longest = max(t.frame_cycles for t in mt.modes)
@@ -44,7 +44,7 @@ def switching_sequence(mt: MultiTiming, *, seed: int, changes: int = 20,
     for i in range(changes):
         edge += rng.randint(max(1, longest // 5), longest * 3 // 2)
         value = rng.choice([m for m in range(mt.count) if m != value])
-        if unknown and i == changes // 2 and mt.count < 1 << mt.mode_width:
+        if unknown and changes >= 3 and i == changes // 2 and mt.count < 1 << mt.mode_width:
             value = mt.count
         out.append((edge, value))
     return out, edge + 2 * longest

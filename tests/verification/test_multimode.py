@@ -97,7 +97,7 @@ def test_mutants_fail_naming_the_fault(mutant: str, tmp_path: Path,
 @pytest.mark.parametrize("example", MULTI_MODE_EXAMPLES, ids=[p.stem for p in MULTI_MODE_EXAMPLES])
 def test_example_switches_on_icarus(example: Path, tmp_path: Path,
                                     need_tool: Callable[[str], Tool]) -> None:  # fmt: skip
-    """The example's real modes (420 000 to 806 400 cycles a frame): a short sequence, every cycle."""
+X
     need_tool("icarus")
     spec = synccore.load(example)
     run = run_switching(spec, simulator="icarus", run_dir=tmp_path / "run", seed=2, changes=2)
