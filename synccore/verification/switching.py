@@ -196,11 +196,11 @@ def _judge(f: FrameFigures, t: Timing) -> list[str]:
             kind = ("short" if what == "line" else "runt") if width < want else "long"
             out.append(f"a {kind} {what} of {width} cycles, mode {f.mode} expects {want}")
     out += [f"the {name} pulse runs over the end of the frame" for name in f.open_at_end]
-    for what, got, want in (("hsync pulses", len(f.hsyncs), t.v_total),
-                            ("vsync pulses", len(f.vsyncs), 1),
-                            ("de runs", len(f.de_runs), t.v_active)):  # fmt: skip
-        if got != want:
-            out.append(f"{got} {what}, mode {f.mode} expects {want}")
+    for what, count, expect in (("hsync pulses", len(f.hsyncs), t.v_total),
+                                ("vsync pulses", len(f.vsyncs), 1),
+                                ("de runs", len(f.de_runs), t.v_active)):  # fmt: skip
+        if count != expect:
+            out.append(f"{count} {what}, mode {f.mode} expects {expect}")
     return out
 
 
