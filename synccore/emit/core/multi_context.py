@@ -22,7 +22,7 @@ from dataclasses import dataclass
 from pathlib import PurePath
 
 from synccore._version import __version__
-from synccore.emit.core.context import GENERATED_MARK, Port, _ports
+from synccore.emit.core.context import GENERATED_MARK, Port, core_ports
 from synccore.emit.core.flags import progressive_roles
 from synccore.model import Timing, reset_port
 from synccore.model.multimode import MultiTiming
@@ -171,7 +171,7 @@ def _multi_ports(mt: MultiTiming) -> tuple[Port, ...]:
     p = mt.spec.port_prefix
     widths = {"x": mt.x_width, "y": mt.y_width}
     out = []
-    for port in _ports(Timing(mt.spec)):
+    for port in core_ports(Timing(mt.spec)):
         port = Port(port.base, port.name, port.direction, widths.get(port.base, port.width),
                     port.comment)  # fmt: skip
         out.append(port)
