@@ -63,6 +63,8 @@ def _print_one(spec: Spec, console: Console, title: str) -> None:
 def show(spec: str, as_modeline: bool, diagram: str | None, edid_file: str | None, force: bool) -> None:
     """Validate SPEC and print its timing summary; writes nothing unless --diagram is given."""
     s = load_spec(spec)
+    if s.modes and (diagram or edid_file):
+        fail("--diagram and --edid take one timing; a multi-mode spec (modes:) has several")
     verdict = None
     if edid_file is not None:
         verdict = judge(load_edid(edid_file), s.pixel_clock_hz, s.horizontal, s.vertical)

@@ -68,3 +68,10 @@ def test_verify_runs_the_switching_sequence(tmp_path: Path, need_tool: Callable[
     code, out, err = invoke("verify", str(spec), "--sim", "icarus", "--changes", "6", "--seed", "3")
     assert code == 0, err
     assert "icarus: ok" in out and "every frame is a whole frame of its mode" in out
+
+
+@pytest.mark.parametrize("command", [["prove"], ["fit", "--part", "ice40-hx8k"], ["view"], ["show", "--diagram", "d.svg"]])
+def test_single_timing_commands_refuse_a_multi_mode_spec(command: list[str]) -> None:
+    code, _, err = invoke(*command, str(MULTI_MODE_EXAMPLES[0]))
+    assert code == 2
+    assert "multi-mode spec (modes:)" in err, err
