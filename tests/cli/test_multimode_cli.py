@@ -70,7 +70,10 @@ def test_verify_runs_the_switching_sequence(tmp_path: Path, need_tool: Callable[
     assert "icarus: ok" in out and "every frame is a whole frame of its mode" in out
 
 
-@pytest.mark.parametrize("command", [["prove"], ["fit", "--part", "ice40-hx8k"], ["view"], ["show", "--diagram", "d.svg"]])
+SINGLE_TIMING = [["prove"], ["fit", "--part", "ice40-hx8k"], ["view"], ["show", "--diagram", "d.svg"]]
+
+
+@pytest.mark.parametrize("command", SINGLE_TIMING)
 def test_single_timing_commands_refuse_a_multi_mode_spec(command: list[str]) -> None:
     code, _, err = invoke(*command, str(MULTI_MODE_EXAMPLES[0]))
     assert code == 2
