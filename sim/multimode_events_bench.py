@@ -10,7 +10,8 @@ measuring every frame against the mode it is in, and by comparing the model
 run's first cycle only (it counts in between).  The clock enable is held at 1: the
 cycle-by-cycle bench (``multimode_bench``) drives an irregular one.
 
-Environment: as ``multimode_bench``.
+Environment: as ``multimode_bench``; SYNCCORE_HDL_CLOCK=1 when the top level makes the
+clock itself (``synccore.emit.bench.multi_clock``, for Icarus).
 """
 
 from __future__ import annotations
@@ -61,7 +62,8 @@ async def switching_events(dut):
 
     rst.value = reset.active
     mode.value = 0
-    Clock(clk, PERIOD_NS, unit="ns").start()
+    if os.environ.get("SYNCCORE_HDL_CLOCK") != "1":  # else a wrapper toggles it in HDL
+        Clock(clk, PERIOD_NS, unit="ns").start()
     await FallingEdge(clk)
     for _ in range(RESET_CYCLES):
         await RisingEdge(clk)

@@ -3,9 +3,11 @@
 from __future__ import annotations
 
 import json
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 
+from synccore.emit import render_verilog
+from synccore.emit.bench.multi_clock import CLOCKED_SUFFIX, render_clocked_verilog
 from synccore.model import Change, MultiTiming
 from synccore.spec import Spec
 from synccore.verification.simulate import SimResult, run_bench
@@ -44,10 +46,16 @@ def run_switching(spec: Spec, *, simulator: str, run_dir: Path, seed: int = 1, c
     plan.write_text(json.dumps({"changes": sequence, "edges": edges}))
     frames_json = run_dir / "frames.json"
     frames_json.unlink(missing_ok=True)
-    result = run_bench(spec, simulator=simulator, run_dir=run_dir, bench=BENCHES[bench], vhdl_std=vhdl_std,
-                       core_text=core_text,
-                       env={"SYNCCORE_SWITCHING": str(plan.resolve()),
-                            "SYNCCORE_FRAMES_JSON": str(frames_json.resolve()),
-                            "SYNCCORE_SEED": str(seed)})  # fmt: skip
+    env = {"SYNCCORE_SWITCHING": str(plan.resolve()), "SYNCCORE_FRAMES_JSON": str(frames_json.resolve()),
+           "SYNCCORE_SEED": str(seed)}  # fmt: skip
+    top = spec
+    if simulator == "icarus" and bench == "events":
+        # Icarus runs cocotb's clock slowly: the clock goes into a Verilog wrapper around the core.
+        core = core_text if core_text is not None else render_verilog(spec)
+        core_text = core + render_clocked_verilog(spec)
+        top = replace(spec, name=spec.name + CLOCKED_SUFFIX)
+        env["SYNCCORE_HDL_CLOCK"] = "1"
+    result = run_bench(top, simulator=simulator, run_dir=run_dir, bench=BENCHES[bench],
+                       vhdl_std=vhdl_std, core_text=core_text, env=env)  # fmt: skip
     frames = json.loads(frames_json.read_text()) if frames_json.is_file() else []
     return SwitchingRun(sequence, edges, result, frames)
