@@ -97,7 +97,8 @@ def run_verify(spec: Spec, *, engines: list[str] | None, frames: int, waves: boo
               help="Keep run folders here (default: a temporary folder; with --waves, "
                    "./<name>_verify).")
 @click.option("--changes", default=3, show_default=True, type=click.IntRange(1, 1000),
-              help="Multi-mode specs: mode changes driven at random cycles.")
+              help="Multi-mode specs: mode changes driven; the first visit every mode in turn, "
+                   "the rest come at random cycles.")
 @click.option("--seed", default=1, show_default=True, type=int,
               help="Multi-mode specs: seed of the switching sequence.")
 def verify_command(spec: str, sims: str | None, frames: int, waves: bool,

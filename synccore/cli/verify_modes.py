@@ -38,7 +38,8 @@ def run_verify_modes(spec: Spec, *, engines: list[str] | None, changes: int, see
     mt = MultiTiming(spec)
     longest = max(t.frame_cycles for t in mt.modes)
     bench = "cycles" if longest <= CYCLES_BENCH_LIMIT else "events"
-    out.print(f"{spec.name}: {mt.count} modes, {changes} seeded mode changes (seed {seed}), "
+    out.print(f"{spec.name}: {mt.count} modes, {changes} seeded mode changes (seed {seed}; the "
+              f"first visit modes 1 to {mt.count - 1}), "
               f"{'every cycle read' if bench == 'cycles' else 'woken on every output change'}")  # fmt: skip
     failed = []
     with tempfile.TemporaryDirectory(prefix="synccore-modes-") as tmp:
@@ -47,7 +48,7 @@ def run_verify_modes(spec: Spec, *, engines: list[str] | None, changes: int, see
         for engine in engines:
             start = time.monotonic()
             run = run_switching(spec, simulator=engine, run_dir=root / engine, seed=seed,
-                                changes=changes, bench=bench)  # fmt: skip
+                                changes=changes, bench=bench, tour=True)  # fmt: skip
             runs[engine] = run
             seconds = time.monotonic() - start
             verdict = "ok" if run.passed else "FAIL"

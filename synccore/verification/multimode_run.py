@@ -33,14 +33,15 @@ class SwitchingRun:
 
 def run_switching(spec: Spec, *, simulator: str, run_dir: Path, seed: int = 1, changes: int = 20,
                   vhdl_std: str = "08", core_text: str | None = None,
-                  bench: str = "cycles") -> SwitchingRun:  # fmt: skip
+                  bench: str = "cycles", tour: bool = False) -> SwitchingRun:  # fmt: skip
     """Run ``changes`` seeded mode changes through ``spec``'s multi-mode core on ``simulator``.
 
     ``bench``: ``"cycles"`` reads every cycle (for small modes), ``"events"`` wakes only when
-    an output changes (full-size modes; the clock enable held at 1).
+    an output changes (full-size modes; the clock enable held at 1).  ``tour``: the first
+    changes visit every mode in turn (see :func:`~synccore.verification.switching.switching_sequence`).
     """
     mt = MultiTiming(spec)
-    sequence, edges = switching_sequence(mt, seed=seed, changes=changes, unknown=True)
+    sequence, edges = switching_sequence(mt, seed=seed, changes=changes, unknown=True, tour=tour)
     run_dir.mkdir(parents=True, exist_ok=True)
     plan = run_dir / "switching.json"
     plan.write_text(json.dumps({"changes": sequence, "edges": edges}))

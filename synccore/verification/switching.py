@@ -27,24 +27,33 @@ Sample = tuple[Outputs, int]
 """The outputs and ``mode_active`` after one advancing edge."""
 
 
-def switching_sequence(mt: MultiTiming, *, seed: int, changes: int = 20,
-                       unknown: bool = False) -> tuple[list[Change], int]:  # fmt: skip
+def switching_sequence(mt: MultiTiming, *, seed: int, changes: int = 20, unknown: bool = False,
+                       tour: bool = False) -> tuple[list[Change], int]:  # fmt: skip
     """``changes`` changes of the mode input at random advancing edges, and how many edges to run.
 
     Each change picks another mode than the input held; the gaps between changes range from
     a fifth of the longest frame to one and a half of it, so some changes are overtaken
     before a frame ends (they must have no effect) and some frames repeat their mode.
-    ``unknown``: one change (the middle one, of three or more) writes a value that names no
-    mode, when the input's width has one.  The run ends two longest frames after the last change.
+    ``tour``: the first changes visit modes 1, 2, ... in turn, each held for more than a
+    longest frame, so that every mode runs (when ``changes`` reaches the last mode).
+    ``unknown``: one change (the middle one, of three or more, after the tour) writes a value
+    that names no mode, when the input's width has one.  The run ends two longest frames
+    after the last change.
     """
     rng = random.Random(seed)
     longest = max(t.frame_cycles for t in mt.modes)
+    visits = mt.count - 1 if tour else 0
+    odd_one = max(changes // 2, visits) if unknown and changes >= 3 else -1
     out: list[Change] = []
     edge, value = 0, 0
     for i in range(changes):
-        edge += rng.randint(max(1, longest // 5), longest * 3 // 2)
-        value = rng.choice([m for m in range(mt.count) if m != value])
-        if unknown and changes >= 3 and i == changes // 2 and mt.count < 1 << mt.mode_width:
+        if i < visits:
+            edge += longest + rng.randint(1, longest // 2 + 1)
+            value = i + 1
+        else:
+            edge += rng.randint(max(1, longest // 5), longest * 3 // 2)
+            value = rng.choice([m for m in range(mt.count) if m != value])
+        if i == odd_one and mt.count < 1 << mt.mode_width:
             value = mt.count
         out.append((edge, value))
     return out, edge + 2 * longest
