@@ -57,7 +57,7 @@ async def switching(dut):
     ce = getattr(dut, p + "ce") if spec.core.clock_enable else None
 
     rst.value = reset.active
-    mode.value = 0
+    mode.value = mt.count - 1  # held during reset: reset still starts a frame of mode 0
     if ce is not None:
         ce.value = 1
     Clock(clk, 10, unit="ns").start()

@@ -61,7 +61,7 @@ async def switching_events(dut):
         getattr(dut, p + "ce").value = 1
 
     rst.value = reset.active
-    mode.value = 0
+    mode.value = mt.count - 1  # held during reset: reset still starts a frame of mode 0
     if os.environ.get("SYNCCORE_HDL_CLOCK") != "1":  # else a wrapper toggles it in HDL
         Clock(clk, PERIOD_NS, unit="ns").start()
     await FallingEdge(clk)
@@ -72,6 +72,7 @@ async def switching_events(dut):
     assert got == (mt.reset_outputs(), 0), f"in reset: got {got}, want {mt.reset_outputs()}, mode 0"
     await FallingEdge(clk)
     rst.value = 1 - reset.active
+    mode.value = 0  # the sequence's value before its first change
     base = _now()  # the falling edge before advancing edge 1
 
     def falling_before(edge: int) -> int:
