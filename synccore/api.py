@@ -30,6 +30,7 @@ from synccore.emit.files import (
     clock_artifacts,
     core_artifacts,
     dvi_artifacts,
+    only_core,
     pattern_artifacts,
     testbench_artifacts,
     write_artifacts,
@@ -42,13 +43,7 @@ from synccore.spec.schema import json_schema
 from synccore.timings import load, loads
 from synccore.timings.modes import Mode, ModeLookupError, find
 from synccore.units import hz
-from synccore.verification.engines import (
-    ENGINES,
-    Progress,
-    Report,
-    available_engines,
-    cocotb_missing,
-)
+from synccore.verification.engines import ENGINES, Progress, Report, available_engines, cocotb_missing
 from synccore.verification.engines import verify as run_engines
 from synccore.verification.fitting import fit
 from synccore.verification.prove import ProofResult, prove
@@ -91,9 +86,9 @@ def write(
 ) -> list[Path]:
     """Write the files of ``spec`` into ``out_dir``, all of them or none; return their paths.
 
-    Always the core, ``<name>.v`` and ``<name>.vhd``.  ``testbench=True`` adds the
-    self-checking benches ``<name>_tb.v`` and ``<name>_tb.vhd``.  ``pattern`` (one of
-    ``bars``, ``grid``, ``gradient``, ``checker``, ``edges``) adds the test-pattern
+    Always the core, ``<name>.v`` and ``<name>.vhd`` (only it for a multi-mode spec).
+    ``testbench=True`` adds the self-checking benches ``<name>_tb.v`` and ``<name>_tb.vhd``.
+    ``pattern`` (``bars``, ``grid``, ``gradient``, ``checker``, ``edges``) adds the pattern
     generator and the first-light top level, ``<name>_pattern.*`` and ``<name>_top.*``.
     ``clock`` (a plan from :func:`plan_clock` for this spec) adds the PLL or
     clock-enable wrapper ``<name>_clock.v``/``.vhd`` and its SDC or XDC constraints; a
@@ -111,16 +106,17 @@ def write(
     ``<name>_dvi``, constraints and pin file; refused outside the tolerance unless
     ``accept_clock_error=True``, beyond the family's I/O rating unless ``accept_io_limit=True``.
 
-    The folder is created if missing.  An existing file is replaced only if
-    synccore generated it, or with ``force=True``.
+    The folder is created if missing.  An existing file is replaced only if synccore
+    generated it, or with ``force=True``.
 
     Raises :class:`SpecError` with every problem when the spec cannot have what was asked
     (interlaced: no test benches, board top or DVI design yet; a minimum active area for the
-    pattern; ``core.clock_enable`` for the clock-enable route
-    and iCE40's link) or a file may not be replaced; :class:`ToolError` for a plan with no
+    pattern; ``core.clock_enable`` for the clock-enable route and iCE40's link; a multi-mode
+    spec: its core only) or a file may not be replaced; :class:`ToolError` for a plan with no
     setting, or refused as above; ``ValueError`` for an unknown pattern or a plan made for
     another spec.  Nothing is written when anything is raised.
     """
+    only_core(spec, bool(testbench or pattern is not None or clock or link))
     _check_request(spec, testbench, pattern, clock, accept_clock_error, linked=link is not None)
     if link is not None:
         _check_link(spec, pattern, clock, link, accept_clock_error, accept_io_limit)
@@ -263,23 +259,23 @@ def verify(
 ) -> Report:
     """Run the core of ``spec`` on each engine for ``frames`` frames and measure it.
 
-    ``engines=None`` runs every simulator found (the built-in engine only when
-    there is none); a list names them: ``icarus``, ``ghdl``, ``verilator``,
-    ``builtin``.  The report's ``rows`` compare each measured figure (totals,
-    porches, sync widths and polarities, data enable, counters, frame and line
-    strobes) with the timing model, one column per engine; ``report.ok`` is true
-    when every engine ran and every figure matches, and ``report.problems()``
-    lists what did not.  A mismatch is a result, not an exception.
+    ``engines=None`` runs every simulator found (the built-in engine only when there is none);
+    a list names them: ``icarus``, ``ghdl``, ``verilator``, ``builtin``.  The report's ``rows``
+    compare each measured figure (totals, porches, sync widths and polarities, data enable,
+    counters, frame and line strobes) with the timing model, one column per engine;
+    ``report.ok`` is true when every engine ran and every figure matches, and
+    ``report.problems()`` lists what did not.  A mismatch is a result, not an exception.
 
-    ``waves=True`` keeps waveform files of each run (listed in ``report.runs``),
-    under ``work_dir`` (default ``./<name>_verify``); without waves, runs go to a
-    temporary folder unless ``work_dir`` is given.  ``progress`` is called with
-    ``(engine, frames done)`` as runs go.
+    ``waves=True`` keeps waveform files of each run (listed in ``report.runs``), under
+    ``work_dir`` (default ``./<name>_verify``); without waves, runs go to a temporary folder
+    unless ``work_dir`` is given.  ``progress`` is called with ``(engine, frames done)``.
 
-    Raises :class:`ToolError` for an unknown engine or one that cannot run here,
-    ``ValueError`` for fewer than 2 frames (a frame's figures are measured
-    between two frame starts).
+    Raises :class:`ToolError` for an unknown engine or one that cannot run here, or a
+    multi-mode spec (``synccore verify`` runs its switching bench); ``ValueError`` for fewer
+    than 2 frames (a frame's figures are measured between two frame starts).
     """
+    if spec.modes:
+        raise ToolError("a multi-mode spec is verified by its switching bench: synccore verify")
     if isinstance(frames, bool) or not isinstance(frames, int) or frames < 2:
         raise ValueError(f"frames must be a whole number of at least 2, got {frames!r}")
     names = pick_engines(engines)

@@ -9,6 +9,7 @@ a failure: CI must never go green by skipping the real simulators.
 from __future__ import annotations
 
 import os
+import re
 import shutil
 from collections.abc import Callable
 from pathlib import Path
@@ -18,7 +19,12 @@ import pytest
 from synccore.verification.tools import Tool, find
 
 ROOT = Path(__file__).resolve().parent.parent
-EXAMPLES = sorted((ROOT / "examples").glob("*.yaml"))
+ALL_EXAMPLES = sorted((ROOT / "examples").glob("*.yaml"))
+MULTI_MODE_EXAMPLES = [p for p in ALL_EXAMPLES if re.search(r"^modes:", p.read_text(), re.M)]
+"""The examples with several timings (``modes:``): tests/emit, tests/cli and
+tests/verification/test_multimode.py check each of them."""
+EXAMPLES = [p for p in ALL_EXAMPLES if p not in MULTI_MODE_EXAMPLES]
+"""The single-mode examples, which every single-mode product (first light, benches, formal) builds."""
 
 
 def _missing(what: str) -> None:

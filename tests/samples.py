@@ -87,3 +87,44 @@ SMALL_INTERLACED_OPTS = spec_text("small_il_opts", "10 MHz", (16, 4, 4, 8, "posi
                                   core={"pixels_per_clock": 2, "clock_enable": True,
                                         "reset": "async_low", "vsync_align": "line"},
                                   prefix="tv_", interlaced=True)  # fmt: skip
+
+
+# ------------------------------------------------------------------ multi-mode
+
+Axis5 = tuple[int, int, int, int, str]
+
+
+def multi_text(name: str, modes: list[tuple[str, Axis5, Axis5]],
+               core: dict[str, object] | None = None, prefix: str | None = None) -> str:  # fmt: skip
+    """A multi-mode spec: one ``modes:`` entry per (clock, horizontal, vertical)."""
+    lines = [f"name: {name}", "modes:"]
+    for clock, h, v in modes:
+        lines += [f"  - pixel_clock_hz: {clock}", f"    horizontal: {_axis(h)}",
+                  f"    vertical: {_axis(v)}"]  # fmt: skip
+    if core:
+        lines.append("core:")
+        lines += [f"  {k}: {str(val).lower() if isinstance(val, bool) else val}"
+                  for k, val in core.items()]  # fmt: skip
+    if prefix is not None:
+        lines += ["ports:", f"  prefix: {prefix}"]
+    return "\n".join(lines) + "\n"
+
+
+# Made up: three small modes of different line lengths, frame heights and polarities
+# (-/-, +/+, -/+), small enough for the cycle-by-cycle switching bench.
+SMALL_MODES: list[tuple[str, Axis5, Axis5]] = [
+    ("10 MHz", (24, 2, 4, 2, "negative"), (6, 1, 2, 1, "negative")),
+    ("12 MHz", (32, 4, 6, 6, "positive"), (8, 2, 2, 2, "positive")),
+    ("15 MHz", (40, 4, 8, 4, "negative"), (10, 1, 3, 2, "positive")),
+]
+MULTI_SMALL = multi_text("mm_small", SMALL_MODES)
+# Made up: the same modes with every option a multi-mode core has, and a port prefix.
+MULTI_SMALL_OPTS = multi_text("mm_opts", SMALL_MODES,
+                              core={"clock_enable": True, "reset": "async_low",
+                                    "vsync_align": "line", "scale": 2},
+                              prefix="pnl_")  # fmt: skip
+# Made up: two modes (a one-bit mode input) and sixteen modes (four bits, all values used).
+MULTI_TWO = multi_text("mm_two", SMALL_MODES[:2], core={"reset": "sync_low"})
+MULTI_SIXTEEN = multi_text("mm_sixteen", [("10 MHz", (24 + 2 * i, 2, 4, 2, "negative"),
+                                           (6 + i % 3, 1, 2, 1, "positive")) for i in range(16)],
+                           core={"reset": "async_high", "clock_enable": True})  # fmt: skip

@@ -71,9 +71,16 @@ def save_all(files: dict[Path, bytes | str], *, force: bool, option: str = "") -
     return list(files)
 
 
-def load_spec(path: str) -> Spec:
-    """The spec at ``path``, or every problem it has and exit 2."""
+def load_spec(path: str, *, single_mode: str = "") -> Spec:
+    """The spec at ``path``, or every problem it has and exit 2.
+
+    ``single_mode``: the name of a command that takes one timing; a multi-mode spec
+    (``modes:``) is then refused with one line."""
     try:
-        return load(path)
+        spec = load(path)
     except SpecError as err:
         fail_spec(err)
+    if single_mode and spec.modes:
+        fail(f"{path}: {single_mode} takes one timing; a multi-mode spec (modes:) is built, "
+             "shown and verified only yet (docs/multimode.md)")  # fmt: skip
+    return spec

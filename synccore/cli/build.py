@@ -96,6 +96,9 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
     """Validate SPEC and write its core as OUT/<name>.v and OUT/<name>.vhd."""
     s = load_spec(spec)
     out = console(wide_pipe=True)
+    if s.modes and (link or with_clock or with_testbench or pattern):
+        fail("a multi-mode spec (modes:) builds its core only yet: drop --clock, --link, "
+             "--testbench and --pattern")  # fmt: skip
     if link is not None:
         _build_link(s, spec, out_dir, force, board_clock, family, no_pll, with_clock, accept_clock_error,
                     accept_io_limit, with_testbench, pattern or "bars")  # fmt: skip
@@ -130,7 +133,11 @@ def build(spec: str, out_dir: str, force: bool, with_clock: bool, board_clock: s
                       f"see it first with `synccore view {spec} --pattern {pattern}`")  # fmt: skip
     for caution in cautions(s):
         out.print(caution, style="dim")
-    if then_verify:
+    if then_verify and s.modes:
+        from synccore.cli.verify_modes import run_verify_modes
+
+        run_verify_modes(s, engines=None, changes=3, seed=1, work_dir=None, out=out)
+    elif then_verify:
         run_verify(s, engines=None, frames=2, waves=False, work_dir=None, out=out)
 
 

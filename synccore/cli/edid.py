@@ -97,7 +97,7 @@ def _write(specs: tuple[str, ...], out: str | None, cta: bool, name: str, force:
         fail("synccore edid --write: give at least one SPEC")
     if out is None:
         fail("synccore edid --write: give -o FILE.bin")
-    loaded = [load_spec(s) for s in specs]
+    loaded = [load_spec(s, single_mode="edid") for s in specs]
     try:
         data = edid_write.build(loaded, cta=cta, name=name)
     except edid_write.EdidWriteError as exc:

@@ -67,7 +67,7 @@ def _text(report: FitReport) -> list[str]:
 def fit_command(spec_path: str, part: str, top: bool, link: str | None, board_clock: str | None,
                 family: str | None, accept_clock_error: bool, seed: int, as_json: bool) -> None:  # fmt: skip
     """Synthesise SPEC's core with Yosys, place and route it with nextpnr, report the fit."""
-    spec = load_spec(spec_path)
+    spec = load_spec(spec_path, single_mode="fit")
     try:
         chosen = find_part(part)
         if family is not None and family != chosen.family:

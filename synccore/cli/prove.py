@@ -74,7 +74,7 @@ def _print(result: ProofResult) -> None:
 def prove_command(spec: str, core: str | None, depth: int, timeout: float, as_json: bool,
                   work_dir: str | None) -> None:  # fmt: skip
     """Prove SPEC's Verilog core against the timing model for all time (SymbiYosys, k-induction)."""
-    s = load_spec(spec)
+    s = load_spec(spec, single_mode="prove")
     missing = formal_missing()
     if missing:
         fail(missing)

@@ -21,10 +21,21 @@ from synccore.timings.modeline import format_line
 
 
 def print_summary(spec: Spec, console: Console) -> None:
-    """The timing table and derived figures of a spec, as terminal tables."""
+    """The timing table and derived figures of a spec, as terminal tables (one per mode of a
+    multi-mode spec)."""
+    if spec.modes:
+        for i, mode in enumerate(spec.modes):
+            _print_one(mode, console, f"{spec.name} mode {i}  ({spec.source})")
+        console.print(f"{len(spec.modes)} modes: the core reads its mode input on the last cycle "
+                      "of each frame and switches at the frame boundary (docs/multimode.md)")
+        return
+    _print_one(spec, console, f"{spec.name}  ({spec.source})")
+
+
+def _print_one(spec: Spec, console: Console, title: str) -> None:
     t = Timing(spec)
     rows = timing_table(t)
-    table = Table(title=f"{spec.name}  ({spec.source})", title_justify="left")
+    table = Table(title=title, title_justify="left")
     for i, head in enumerate(rows[0]):
         table.add_column(head, justify="left" if i == 0 else "right")
     for row in rows[1:]:
@@ -52,6 +63,8 @@ def print_summary(spec: Spec, console: Console) -> None:
 def show(spec: str, as_modeline: bool, diagram: str | None, edid_file: str | None, force: bool) -> None:
     """Validate SPEC and print its timing summary; writes nothing unless --diagram is given."""
     s = load_spec(spec)
+    if s.modes and (diagram or edid_file):
+        fail("--diagram and --edid take one timing; a multi-mode spec (modes:) has several")
     verdict = None
     if edid_file is not None:
         verdict = judge(load_edid(edid_file), s.pixel_clock_hz, s.horizontal, s.vertical)
@@ -65,7 +78,9 @@ def show(spec: str, as_modeline: bool, diagram: str | None, edid_file: str | Non
 
         save(diagram, render, force=force, option="--diagram")
     if as_modeline:
-        click.echo(format_line(s.name, s.pixel_clock_hz, s.horizontal, s.vertical))
+        for i, m in enumerate(s.modes or (s,)):
+            name = f"{s.name}_mode{i}" if s.modes else s.name
+            click.echo(format_line(name, m.pixel_clock_hz, m.horizontal, m.vertical))
         return
     print_summary(s, console(wide_pipe=True))
     if diagram is not None:

@@ -96,10 +96,26 @@ def run_verify(spec: Spec, *, engines: list[str] | None, frames: int, waves: boo
 @click.option("--work-dir", type=click.Path(file_okay=False),
               help="Keep run folders here (default: a temporary folder; with --waves, "
                    "./<name>_verify).")
+@click.option("--changes", default=3, show_default=True, type=click.IntRange(1, 1000),
+              help="Multi-mode specs: mode changes driven; the first visit every mode in turn, "
+                   "the rest come at random cycles.")
+@click.option("--seed", default=1, show_default=True, type=int,
+              help="Multi-mode specs: seed of the switching sequence.")
 def verify_command(spec: str, sims: str | None, frames: int, waves: bool,
-                   work_dir: str | None) -> None:  # fmt: skip
-    """Generate SPEC's core, run it in every simulator found, and measure it against the spec."""
+                   work_dir: str | None, changes: int, seed: int) -> None:  # fmt: skip
+    """Generate SPEC's core, run it in every simulator found, and measure it against the spec.
+
+    A multi-mode spec (modes:) is run through a seeded sequence of mode changes instead:
+    every frame measured against its own mode, every output against the model."""
     engines = _engines_option(sims)
     s = load_spec(spec)
+    if s.modes:
+        from synccore.cli.verify_modes import run_verify_modes
+
+        if waves:
+            fail("--waves: not for multi-mode specs yet")
+        run_verify_modes(s, engines=engines, changes=changes, seed=seed, work_dir=work_dir,
+                         out=console(wide_pipe=True))  # fmt: skip
+        return
     run_verify(s, engines=engines, frames=frames, waves=waves, work_dir=work_dir,
                out=console(wide_pipe=True))

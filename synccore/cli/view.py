@@ -112,7 +112,7 @@ def view_command(spec: str | None, engine: str, pattern: str, out_png: str | Non
         title = f"{s.name} ({pattern}) over a DVI link on {engine}"
         pins = _receive(s, pattern, engine, work_dir, clock_notes, clock_problems)
     elif vcd:
-        s = load_spec(spec) if spec is not None else None
+        s = load_spec(spec, single_mode="view") if spec is not None else None
         pins = _pins_from_vcd(vcd, mapping)
         title = f"{vcd}"
     else:
@@ -240,7 +240,7 @@ def _load(spec: str, *, woven: bool = False) -> Spec:
     ``woven``: the caller weaves an interlaced spec's fields; the others refuse it."""
     from synccore.model.pattern import pattern_problems
 
-    s = load_spec(spec)
+    s = load_spec(spec, single_mode="view")
     if s.interlaced and not woven:
         fail("--board and --link are progressive only so far: view an interlaced spec without "
              "them (its two fields woven into one frame)")  # fmt: skip

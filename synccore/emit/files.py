@@ -14,6 +14,7 @@ from synccore.emit import render_verilog, render_vhdl
 from synccore.emit.clock.constraints import constraint_suffix, render_constraints
 from synccore.emit.clock.pll import module_name, render_clock_verilog, render_clock_vhdl
 from synccore.emit.writing import write_files
+from synccore.errors import Problem, SpecError
 from synccore.spec import Spec
 
 Renderer = Callable[[Spec], str]
@@ -35,6 +36,15 @@ class Artifact:
 def core_artifacts(spec: Spec) -> list[Artifact]:
     """The core in every target language."""
     return [Artifact(spec.name + suffix, render(spec)) for suffix, render in CORE_FILES]
+
+
+def only_core(spec: Spec, more: bool) -> None:
+    """Raise :class:`SpecError` when files beyond the core (``more``) are asked of a multi-mode
+    spec: it has no test benches, test pattern, clock or link files yet."""
+    if spec.modes and more:
+        raise SpecError([Problem(spec.location("modes"), "modes",
+                                 "a multi-mode spec builds its core only yet: no test benches, test "
+                                 "pattern, clock or link files; build without those")])  # fmt: skip
 
 
 def clock_artifacts(plan: ClockPlan) -> list[Artifact]:

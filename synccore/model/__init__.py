@@ -18,6 +18,7 @@ from synccore.model.contract import (
     stop_count,
 )
 from synccore.model.fields import bits_for
+from synccore.model.multimode import Change, Frame, MultiTiming, multi_timing
 from synccore.model.timing import Outputs, Timing, timing
 
 __all__ = [
@@ -25,6 +26,9 @@ __all__ = [
     "LFSR_SEED",
     "MONITOR_FIELDS",
     "RESET_CYCLES",
+    "Change",
+    "Frame",
+    "MultiTiming",
     "Event",
     "Outputs",
     "ResetPort",
@@ -32,6 +36,7 @@ __all__ = [
     "bits_for",
     "decode",
     "monitor_fields",
+    "multi_timing",
     "parse_events",
     "reset_port",
     "stop_count",

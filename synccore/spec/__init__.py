@@ -20,14 +20,25 @@ from synccore.spec._check import (
     parse_frequency,
     where,
 )
-from synccore.spec._fields import FIT_FIELDS, FORMULA_FIELDS, SPEC_FIELDS, Field
+from synccore.spec._fields import (
+    FIT_FIELDS,
+    FORMULA_FIELDS,
+    MODE_FIELDS,
+    SHARED_FIELDS,
+    SPEC_FIELDS,
+    TIMING_KEYS,
+    Field,
+)
 from synccore.spec._names import identifier_problem
 from synccore.spec._types import (
     BASE_PORTS,
     FAMILY_NAMES,
     FORMULA_METHODS,
     MAX_AXIS,
+    MAX_MODES,
     MAX_PIXEL_CLOCK_HZ,
+    MIN_MODES,
+    MULTI_MODE_PORTS,
     PIXELS_PER_CLOCK,
     POLARITIES,
     RESETS,
@@ -57,8 +68,9 @@ from synccore.spec._yaml import (
 
 __all__ = [
     "BASE_PORTS", "FAMILY_NAMES", "FIT_FIELDS", "FORMULA_FIELDS", "FORMULA_METHODS",
-    "MAX_AXIS", "MAX_FILE_BYTES", "MAX_PIXEL_CLOCK_HZ", "PIXELS_PER_CLOCK", "POLARITIES",
-    "RESETS", "SCALES", "SPEC_FIELDS", "VSYNC_ALIGNS",
+    "MAX_AXIS", "MAX_FILE_BYTES", "MAX_MODES", "MAX_PIXEL_CLOCK_HZ", "MIN_MODES", "MODE_FIELDS",
+    "MULTI_MODE_PORTS", "PIXELS_PER_CLOCK", "POLARITIES", "RESETS", "SCALES", "SHARED_FIELDS",
+    "SPEC_FIELDS", "TIMING_KEYS", "VSYNC_ALIGNS",
     "Axis", "Board", "Collector", "Color", "CoreOptions", "Field", "Fit", "Located", "Node",
     "Refused", "Scalar", "Spec", "ValueRange",
     "check_section", "describe_node", "field_names", "from_dict", "identifier_problem",

@@ -166,6 +166,8 @@ def _check_value(f: Field, node: loader.Node, path: str, out: Collector) -> Any:
             out.add(where, path, f"must be a mapping of {field_names(f.fields)}, got {describe_node(node)}")
             return None
         return check_section(f.fields, node, path, out)
+    if f.kind == "list":
+        return _check_list(f, node, path, out)
     check = _SCALAR_CHECKS.get(f.kind)
     if check is None:  # pragma: no cover
         raise AssertionError(f"unknown field kind {f.kind!r}")
@@ -175,6 +177,33 @@ def _check_value(f: Field, node: loader.Node, path: str, out: Collector) -> Any:
     if isinstance(node.value, loader.Refused):
         return None  # the reader has said why
     return check(f, node.value, functools.partial(out.add, where, path))
+
+
+def _check_list(f: Field, node: loader.Node, path: str, out: Collector) -> list[Any] | None:
+    """A list of ``f.minimum`` .. ``f.maximum`` mappings of ``f.fields``; every entry is checked."""
+    if not isinstance(node, loader.Located) or not isinstance(node.value, list):
+        out.add(node.location, path, f"must be a list of mappings of {field_names(f.fields)}, "
+                                     f"got {describe_node(node)}")  # fmt: skip
+        return None
+    entries: list[loader.Node] = node.value
+    ok = True
+    low, high = f.minimum or 0, f.maximum if f.maximum is not None else len(entries)
+    if not low <= len(entries) <= high:
+        out.add(node.location, path,
+                f"must hold {f.minimum} to {f.maximum} entries, got {len(entries)}")  # fmt: skip
+        ok = False
+    checked = []
+    for i, entry in enumerate(entries):
+        here = f"{path}[{i}]"
+        if not isinstance(entry, loader.Located) or not isinstance(entry.value, dict):
+            out.add(entry.location, here, f"must be a mapping of {field_names(f.fields)}, "
+                                          f"got {describe_node(entry)}")  # fmt: skip
+            ok = False
+            continue
+        values = check_section(f.fields, entry, here, out)
+        ok = ok and values is not None
+        checked.append(values)
+    return checked if ok else None
 
 
 def describe_node(node: loader.Node) -> str:

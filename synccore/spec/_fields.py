@@ -13,6 +13,8 @@ from synccore.spec._types import (
     FAMILY_NAMES,
     FORMULA_METHODS,
     MAX_AXIS,
+    MAX_MODES,
+    MIN_MODES,
     PIXELS_PER_CLOCK,
     POLARITIES,
     RESETS,
@@ -26,7 +28,7 @@ class Field:
     """One key of the format: its kind, constraints, default and one line of documentation."""
 
     name: str
-    kind: str  # int | bool | choice | identifier | prefix | frequency | decimal | text | section
+    kind: str  # int | bool | choice | identifier | prefix | frequency | decimal | text | section | list
     doc: str
     required: bool = True
     default: Any = None
@@ -35,6 +37,7 @@ class Field:
     choices: tuple[Any, ...] = ()
     fields: tuple[Field, ...] = ()
     ranged: bool = False  # may also be a datasheet range {min, typ, max} (needs a fit: section)
+    # A list holds minimum..maximum entries, each a mapping of ``fields``.
 
 
 def _axis_fields(unit: str, what: str) -> tuple[Field, ...]:
@@ -112,24 +115,38 @@ COLOR_FIELDS = (
           minimum=1, maximum=8),
 )  # fmt: skip
 
+def _timing_fields(what: str) -> tuple[Field, ...]:
+    """The keys that give one timing: a library entry, a formula, ranges or explicit numbers."""
+    return (
+        Field("standard", "text", f'a library timing instead of the explicit keys{what}: '
+              '"1280x720@60", "DMT 55h", "CTA VIC 4" (see synccore modes)', required=False),
+        Field("formula", "section", "a formula timing instead of the explicit keys",
+              required=False, fields=FORMULA_FIELDS),
+        Field("fit", "section", "target for datasheet ranges given as {min, typ, max}",
+              required=False, fields=FIT_FIELDS),
+        Field("pixel_clock_hz", "frequency",
+              'pixel clock: a number in Hz or a string with a unit ("25.175 MHz", "25175 kHz")',
+              ranged=True),
+        Field("horizontal", "section", "timing within a line, in pixels",
+              fields=_axis_fields("pixels", "line")),
+        Field("vertical", "section", "timing within a frame, in lines (within one field when "
+              "interlaced)", fields=_axis_fields("lines", "frame")),
+        Field("interlaced", "bool", "two fields per frame (CTA-861 interlace): vertical gives "
+              "the second field; the first has one more back-porch line and its vsync half a "
+              "line later", required=False, default=False),
+    )  # fmt: skip
+
+
+MODE_FIELDS = _timing_fields(" of this mode")
+"""One entry of ``modes:``: a whole timing, written as a single-mode spec writes it."""
+
+TIMING_KEYS = ("standard", "formula", "fit", "pixel_clock_hz", "horizontal", "vertical",
+               "interlaced")  # fmt: skip
+"""The keys a multi-mode spec gives per mode, never at the top level."""
+
 SPEC_FIELDS = (
     Field("name", "identifier", "module / entity name, legal in Verilog and VHDL"),
-    Field("standard", "text", 'a library timing instead of the explicit keys: "1280x720@60", '
-          '"DMT 55h", "CTA VIC 4" (see synccore modes)', required=False),
-    Field("formula", "section", "a formula timing instead of the explicit keys",
-          required=False, fields=FORMULA_FIELDS),
-    Field("fit", "section", "target for datasheet ranges given as {min, typ, max}",
-          required=False, fields=FIT_FIELDS),
-    Field("pixel_clock_hz", "frequency",
-          'pixel clock: a number in Hz or a string with a unit ("25.175 MHz", "25175 kHz")',
-          ranged=True),
-    Field("horizontal", "section", "timing within a line, in pixels",
-          fields=_axis_fields("pixels", "line")),
-    Field("vertical", "section", "timing within a frame, in lines (within one field when "
-          "interlaced)", fields=_axis_fields("lines", "frame")),
-    Field("interlaced", "bool", "two fields per frame (CTA-861 interlace): vertical gives the "
-          "second field; the first has one more back-porch line and its vsync half a line later",
-          required=False, default=False),
+    *_timing_fields(""),
     Field("core", "section", "options of the generated core", required=False,
           fields=CORE_FIELDS),
     Field("ports", "section", "port naming", required=False, fields=PORT_FIELDS),
@@ -137,4 +154,11 @@ SPEC_FIELDS = (
           fields=BOARD_FIELDS),
     Field("color", "section", "colour depth of the test-pattern design (build --pattern)",
           required=False, fields=COLOR_FIELDS),
+    Field("modes", "list", f"several timings for one core ({MIN_MODES} to {MAX_MODES}), each "
+          "given as a single-mode spec gives its timing; a mode input chooses among them at "
+          "frame boundaries (see docs/multimode.md)", required=False, minimum=MIN_MODES,
+          maximum=MAX_MODES, fields=MODE_FIELDS),
 )  # fmt: skip
+
+SHARED_FIELDS = tuple(f for f in SPEC_FIELDS if f.name not in TIMING_KEYS)
+"""The top-level keys of a multi-mode spec: everything but the timing, which each mode gives."""

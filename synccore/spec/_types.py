@@ -32,6 +32,13 @@ BASE_PORTS = (
 
 FORMULA_METHODS = ("cvt", "cvt-rb", "cvt-rb2", "gtf")
 
+MIN_MODES = 2
+MAX_MODES = 16
+"""How many timings a multi-mode spec (``modes:``) may list: a 4-bit mode input at most."""
+
+MULTI_MODE_PORTS = ("mode", "mode_active")
+"""The ports a multi-mode core adds to :data:`BASE_PORTS`."""
+
 FAMILY_NAMES = ("ice40", "ecp5", "xc7-mmcm", "xc7-pll", "gowin", "cyclone")
 """FPGA families whose PLL clock planning knows, in the order they are listed to users
 (synccore.clocking.families holds their data and checks that it knows exactly these)."""
@@ -155,6 +162,11 @@ class Spec:
     color: Color = Color()
     fit: Fit | None = None
     """The datasheet ranges and tolerance of a timing fitted with ``fit:``; None otherwise."""
+    modes: tuple[Spec, ...] = ()
+    """A multi-mode spec's timings, in the order of ``modes:`` (empty for a single-mode spec).
+
+    Each is a whole single-mode spec (the shared name, core and ports, its own timing);
+    the top-level timing fields of a multi-mode spec are those of mode 0."""
     locations: Mapping[str, Location] = field(default_factory=dict, compare=False, repr=False)
     """Where the source file writes each field, by dotted path (``"horizontal.active"``; ``""``
     is the whole document), filled by the validator so that later checks can point into the
@@ -186,6 +198,7 @@ def to_dict(spec: Spec) -> dict[str, Any]:
         **({"interlaced": True} if spec.interlaced else {}),
         "source": spec.source,
         "color": vars(spec.color).copy(),
+        **({"modes": [to_dict(m) for m in spec.modes]} if spec.modes else {}),
         "fit": None if spec.fit is None else {
             "ranges": {path: {k: _exact(v) for k, v in vars(r).items()}
                        for path, r in spec.fit.ranges},
@@ -225,4 +238,5 @@ def from_dict(data: dict[str, Any]) -> Spec:
         source=data["source"],
         color=Color(**data.get("color", {})),
         fit=_fit_from(data.get("fit")),
+        modes=tuple(from_dict(m) for m in data.get("modes", ())),
     )

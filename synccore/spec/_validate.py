@@ -10,12 +10,13 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from synccore.errors import Location, Problem, SpecError
+from synccore.errors import Problem, SpecError
 from synccore.spec import _yaml as loader
 from synccore.spec._check import Collector, check_section, describe_node, field_names, where
-from synccore.spec._fields import SPEC_FIELDS, Field
-from synccore.spec._names import identifier_problem
-from synccore.spec._types import BASE_PORTS, MAX_AXIS, Axis, Board, Color, CoreOptions, Fit, Spec
+from synccore.spec._fields import SPEC_FIELDS
+from synccore.spec._rules import check_names, check_timing, field_locations
+from synccore.spec._types import BASE_PORTS, Axis, Board, Color, CoreOptions, Fit, Spec
+from synccore.spec._validate_modes import ModeOrigin, validate_modes
 
 
 def top_mapping(doc: loader.Node) -> loader.Located:
@@ -34,16 +35,20 @@ def validate(
     notes: tuple[str, ...] = (),
     fit: Fit | None = None,
     earlier: Sequence[Problem] = (),
+    modes: Sequence[ModeOrigin] = (),
 ) -> Spec:
     """Check an explicit-form document; raise :class:`SpecError` with every problem.
 
     ``origin`` and ``notes`` say where a resolved timing came from, ``fit`` the datasheet
     ranges it was fitted to; ``earlier`` are the problems the resolution step found,
-    reported together with the validator's own.
+    reported together with the validator's own.  A multi-mode document (``modes:``) gives
+    its timings in its modes, and ``modes`` says where each came from, in their order.
     """
     out = Collector()
     out.problems.extend(earlier)
     top = top_mapping(doc)
+    if "modes" in top.value:
+        return validate_modes(top, source=source, modes=modes, out=out)
     values = check_section(SPEC_FIELDS, top, "", out)
     if values is None or out.problems:
         raise SpecError(out.problems)
@@ -53,7 +58,8 @@ def validate(
     core = CoreOptions(**values["core"]) if values["core"] else CoreOptions()
     prefix: str = (values["ports"] or {}).get("prefix", "") or ""
     interlaced = bool(values["interlaced"])
-    _check_cross(top, values["name"], h, v, core, prefix, out)
+    check_timing(top, "", h, v, core, out)
+    check_names(top, values["name"], prefix, BASE_PORTS, out)
     if interlaced:
         _check_interlace(top, h, v, core, out)
     if out.problems:
@@ -72,79 +78,8 @@ def validate(
         board=Board(**values["board"]) if values["board"] else Board(),
         color=Color(**values["color"]) if values["color"] else Color(),
         fit=fit,
-        locations=_field_locations(top),
+        locations=field_locations(top),
     )
-
-
-def _field_locations(doc: loader.Located) -> dict[str, Location]:
-    """Where ``doc`` writes each field of the format, by dotted path (``""``: the document).
-
-    Only fields the document gives are listed; a field it leaves to its default is found
-    through its section (:meth:`Spec.location`).
-    """
-    out = {"": doc.location}
-    _record(SPEC_FIELDS, doc, "", out)
-    return out
-
-
-def _record(fields: tuple[Field, ...], node: loader.Located, path: str,
-            out: dict[str, Location]) -> None:  # fmt: skip
-    for f in fields:
-        child = node.value.get(f.name)
-        if child is None:
-            continue
-        here = f"{path}.{f.name}" if path else f.name
-        out[here] = child.location
-        if f.kind == "section" and isinstance(child, loader.Located) and isinstance(child.value, dict):
-            _record(f.fields, child, here, out)
-
-
-def _check_cross(
-    doc: loader.Located,
-    name: str,
-    h: Axis,
-    v: Axis,
-    core: CoreOptions,
-    prefix: str,
-    out: Collector,
-) -> None:
-    """Rules that involve more than one field."""
-    for axis, label, unit in ((h, "horizontal", "pixels"), (v, "vertical", "lines")):
-        if axis.total > MAX_AXIS:
-            out.add(where(doc, label), label,
-                    f"total of {axis.total} {unit} is more than {MAX_AXIS}")  # fmt: skip
-        if 2 * axis.sync >= axis.total:  # a monitor reads the shorter level as the pulse (common practice)
-            out.add(where(doc, label, "sync"), f"{label}.sync",
-                    f"must be less than half the total ({axis.total} {unit}): a pulse of {axis.sync} "
-                    "cannot be told from its inverse, got " + str(axis.sync))  # fmt: skip
-    n = core.pixels_per_clock
-    if n > 1:
-        for key in ("active", "front_porch", "sync", "back_porch"):
-            value = getattr(h, key)
-            if value % n:
-                out.add(where(doc, "horizontal", key), f"horizontal.{key}",
-                        f"must divide by core.pixels_per_clock = {n}, got {value}")  # fmt: skip
-    if core.scale > 1:
-        for axis, label in ((h, "horizontal"), (v, "vertical")):
-            if axis.active % core.scale:
-                out.add(where(doc, label, "active"), f"{label}.active",
-                        f"must divide by core.scale = {core.scale}, got {axis.active}")  # fmt: skip
-    frame_cycles = (h.total // n) * v.total
-    if core.lead >= frame_cycles and frame_cycles > 0:
-        out.add(where(doc, "core", "lead"), "core.lead",
-                f"must be less than one frame ({frame_cycles} cycles), got {core.lead}")  # fmt: skip
-    port_names = [p for p in BASE_PORTS]
-    for port in port_names:
-        full = prefix + port
-        reason = identifier_problem(full)
-        if reason:
-            out.add(where(doc, "ports", "prefix"), "ports.prefix",
-                    f"makes port {full!r} illegal: {reason}")  # fmt: skip
-            break
-    clash = [p for p in port_names if (prefix + p).lower() == name.lower()]
-    if clash:
-        out.add(where(doc, "name"), "name",
-                f"clashes with port {prefix + clash[0]!r} (VHDL ignores case), got {name!r}")  # fmt: skip
 
 
 def _check_interlace(doc: loader.Located, h: Axis, v: Axis, core: CoreOptions,

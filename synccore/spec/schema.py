@@ -5,6 +5,7 @@ from __future__ import annotations
 from typing import Any
 
 from synccore.spec import SPEC_FIELDS, Field
+from synccore.spec import TIMING_KEYS as PER_MODE_KEYS
 
 TIMING_KEYS = ("pixel_clock_hz", "horizontal", "vertical")
 ALTERNATIVES = ["standard", "formula"]
@@ -16,6 +17,9 @@ def _field_schema(f: Field) -> dict[str, Any]:
     s: dict[str, Any]
     if f.kind == "section":
         s = _section(f.fields)
+    elif f.kind == "list":
+        s = {"type": "array", "minItems": f.minimum, "maxItems": f.maximum,
+             "items": _timing_choice(_section(f.fields))}  # fmt: skip
     elif f.kind == "int":
         s = {"type": "integer"}
         if f.minimum is not None:
@@ -74,6 +78,24 @@ def _range(value: dict[str, Any]) -> dict[str, Any]:
     }
 
 
+def _timing_choice(schema: dict[str, Any], *, modes: bool = False) -> dict[str, Any]:
+    """``schema`` with its timing from exactly one of: explicit keys, a library entry, a
+    formula, or (``modes``, at the top level) a list of modes that give their own."""
+    explicit = list(TIMING_KEYS)
+    others = ALTERNATIVES + (["modes"] if modes else [])
+    schema["required"] = [k for k in schema["required"] if k not in explicit]
+    schema["oneOf"] = [
+        {"required": explicit, "not": {"anyOf": [{"required": [k]} for k in others]}},
+        *({"required": [k], "not": {"anyOf": [{"required": [x]}
+                                              for x in explicit + ["fit"] + others
+                                              if x != k]}}
+          for k in ALTERNATIVES),
+        *([{"required": ["modes"], "not": {"anyOf": [{"required": [k]} for k in PER_MODE_KEYS]}}]
+          if modes else []),
+    ]  # fmt: skip
+    return schema
+
+
 def json_schema() -> dict[str, Any]:
     """The JSON Schema (draft 2020-12) of a synccore timing description."""
     schema = {
@@ -82,14 +104,4 @@ def json_schema() -> dict[str, Any]:
         "title": "synccore timing description",
         **_section(SPEC_FIELDS),
     }
-    # The timing comes from exactly one of: explicit keys, a library entry, a formula.
-    explicit = [k for k in TIMING_KEYS]
-    schema["required"] = [k for k in schema["required"] if k not in explicit]
-    schema["oneOf"] = [
-        {"required": explicit, "not": {"anyOf": [{"required": [k]} for k in ALTERNATIVES]}},
-        *({"required": [k], "not": {"anyOf": [{"required": [x]}
-                                              for x in explicit + ["fit"] + ALTERNATIVES
-                                              if x != k]}}
-          for k in ALTERNATIVES),
-    ]  # fmt: skip
-    return schema
+    return _timing_choice(schema, modes=True)

@@ -34,4 +34,5 @@ def _read(doc: Node, source: str, reading: list[Problem]) -> Spec:
         raise SpecError([*reading, *err.problems]) from None
     resolved = resolve(top)
     return validate(resolved.doc, source=source, origin=resolved.origin, notes=resolved.notes,
-                    fit=resolved.fit, earlier=[*reading, *resolved.problems])  # fmt: skip
+                    fit=resolved.fit, earlier=[*reading, *resolved.problems],
+                    modes=[(m.origin, m.notes, m.fit) for m in resolved.modes])  # fmt: skip

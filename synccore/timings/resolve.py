@@ -20,6 +20,7 @@ from typing import Any
 from synccore.errors import Location, Problem
 from synccore.spec import (
     FORMULA_FIELDS,
+    TIMING_KEYS,
     Axis,
     Collector,
     Fit,
@@ -46,6 +47,7 @@ class Resolved:
     notes: tuple[str, ...] = ()
     fit: Fit | None = None  # the datasheet ranges, when the timing was fitted to them
     problems: list[Problem] = field(default_factory=list)
+    modes: list[Resolved] = field(default_factory=list)  # a multi-mode spec: each mode's resolution
 
 
 # A stand-in timing (any valid one) used only after a recorded problem.
@@ -74,6 +76,10 @@ def resolve(doc: Located) -> Resolved:
     keys = dict(doc.key_locations)
     new = Located(given, doc.location, key_locations=keys)
     result = Resolved(new)
+    if "modes" in given:
+        _resolve_modes(given, keys, result, out)
+        result.problems = out.problems
+        return result
     chosen = [k for k in ALTERNATIVES if k in given]
     explicit = [k for k in EXPLICIT if k in given]
 
@@ -108,6 +114,35 @@ def resolve(doc: Located) -> Resolved:
             result.fit = fitted.fit
     result.problems = out.problems
     return result
+
+
+def _resolve_modes(given: dict[str, Node], keys: dict[str, Location], result: Resolved,
+                   out: Collector) -> None:  # fmt: skip
+    """A multi-mode spec: every entry of ``modes:`` resolved as a timing of its own, in place.
+
+    The top level gives no timing of its own; a timing key there is refused (and dropped, so
+    that validation reports it once).
+    """
+    for k in TIMING_KEYS:
+        if k in given:
+            out.add(keys[k], k, f"cannot be given together with modes (at {keys['modes']}): each "
+                                "mode gives its own timing; move it into the modes")  # fmt: skip
+            given.pop(k)
+            keys.pop(k)
+    node = given["modes"]
+    if not isinstance(node, Located) or not isinstance(node.value, list):
+        return  # validation says what modes must be
+    entries = list(node.value)
+    for i, entry in enumerate(entries):
+        if not isinstance(entry, Located) or not isinstance(entry.value, dict) or "modes" in entry.value:
+            result.modes.append(Resolved(entry))  # validation says what an entry must be
+            continue
+        mode = resolve(entry)
+        entries[i] = mode.doc
+        out.problems.extend(Problem(p.location, f"modes[{i}].{p.field}" if p.field else f"modes[{i}]",
+                                    p.message) for p in mode.problems)  # fmt: skip
+        result.modes.append(mode)
+    given["modes"] = Located(entries, node.location, key_locations=dict(node.key_locations))
 
 
 def _standard(node: Node, result: Resolved, out: Collector) -> None:

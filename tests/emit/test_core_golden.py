@@ -14,13 +14,14 @@ import synccore
 from synccore.emit._jinja import templates_dir
 from tests import golden_files
 from tests import samples as timings
-from tests.conftest import EXAMPLES
+from tests.conftest import EXAMPLES, MULTI_MODE_EXAMPLES
 
 RENDERERS = {".v": synccore.render_verilog, ".vhd": synccore.render_vhdl}
 
 
 @pytest.mark.parametrize("suffix", list(RENDERERS))
-@pytest.mark.parametrize("example", EXAMPLES, ids=[p.stem for p in EXAMPLES])
+@pytest.mark.parametrize("example", EXAMPLES + MULTI_MODE_EXAMPLES,
+                         ids=[p.stem for p in EXAMPLES + MULTI_MODE_EXAMPLES])
 def test_golden(example: Path, suffix: str) -> None:
     spec = synccore.load(example)
     text = RENDERERS[suffix](spec)

@@ -12,7 +12,7 @@ from synccore.emit.files import core_artifacts, pattern_artifacts
 from synccore.model.pattern import PATTERNS
 from synccore.verification.tools import Tool
 from tests import samples as timings
-from tests.conftest import EXAMPLES
+from tests.conftest import EXAMPLES, MULTI_MODE_EXAMPLES
 from tests.hdl import GHDL_WARNINGS, ghdl_analyse, iverilog_compile, run, verilator_lint
 
 pytestmark = pytest.mark.sim
@@ -32,6 +32,12 @@ CASES = {
     "small_interlaced": timings.SMALL_INTERLACED,
     "small_interlaced_opts": timings.SMALL_INTERLACED_OPTS,
     **{p.stem: p.read_text() for p in EXAMPLES},
+    # multi-mode cores (modes:): every option they have, 2, 3 and 16 modes
+    "multi_small": timings.MULTI_SMALL,
+    "multi_small_opts": timings.MULTI_SMALL_OPTS,
+    "multi_two": timings.MULTI_TWO,
+    "multi_sixteen": timings.MULTI_SIXTEEN,
+    **{p.stem: p.read_text() for p in MULTI_MODE_EXAMPLES},
 }
 RESET_STYLES = ["sync_high", "sync_low", "async_high", "async_low"]
 

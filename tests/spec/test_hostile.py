@@ -100,7 +100,7 @@ def test_an_empty_tagged_number_is_refused_with_its_reason() -> None:
     assert _problems("!!float") == [
         "hostile.yaml:1:1: '' is not a valid !!float value; write the value without the tag, or a valid one",
         "hostile.yaml:1:1: must be a mapping of name, standard, formula, fit, pixel_clock_hz, horizontal, "
-        "vertical, core, ports, board, color, got <refused>",
+        "vertical, interlaced, core, ports, board, color, modes, got <refused>",
     ]
     lines = _problems(BASE.replace("25175000", "!!float"))
     assert lines == ["hostile.yaml:2:17: pixel_clock_hz: '' is not a valid !!float value; write the value "

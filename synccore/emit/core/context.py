@@ -147,7 +147,7 @@ def _constants(t: Timing) -> tuple[Constant, ...]:
     return tuple(consts)
 
 
-def _ports(t: Timing) -> tuple[Port, ...]:
+def core_ports(t: Timing) -> tuple[Port, ...]:
     """The core's ports in their emitted order, with the prefix and a comment each."""
     spec = t.spec
     core = spec.core
@@ -195,7 +195,7 @@ def build_context(t: Timing) -> CoreContext:
     """The context of ``t``'s core: header, constants, ports and the flags templates branch on."""
     spec = t.spec
     core = spec.core
-    ports = _ports(t)
+    ports = core_ports(t)
     reset = reset_port(core.reset)
     flags, flag, _ = position_flags(t)
     return CoreContext(

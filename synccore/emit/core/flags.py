@@ -35,7 +35,7 @@ line 0 loads from it (the two fields end on different lines)."""
 
 def _roles(t: Timing) -> tuple[tuple[str, str, int, str], ...]:
     """(role, axis, position, what it marks) of every flag the templates read."""
-    return _progressive_roles(t) + (_field0_roles(t) if t.interlaced else ())
+    return progressive_roles(t) + (_field0_roles(t) if t.interlaced else ())
 
 
 def _field0_roles(t: Timing) -> tuple[tuple[str, str, int, str], ...]:
@@ -50,7 +50,7 @@ def _field0_roles(t: Timing) -> tuple[tuple[str, str, int, str], ...]:
     )
 
 
-def _progressive_roles(t: Timing) -> tuple[tuple[str, str, int, str], ...]:
+def progressive_roles(t: Timing) -> tuple[tuple[str, str, int, str], ...]:
     """The roles of every core, progressive or interlaced."""
     return (
         ("h_at_last", "h", t.h_last, "the last cycle of a line"),

@@ -5,12 +5,15 @@ from __future__ import annotations
 from synccore.emit._jinja import environment
 from synccore.emit._verilog import comment_lines, uint, vector
 from synccore.emit.core.context import CoreContext, build_context
+from synccore.emit.core.multi_verilog import render_multi_verilog
 from synccore.model import Timing
 from synccore.spec import Spec
 
 
 def render_verilog(spec: Spec) -> str:
-    """The core of ``spec`` as Verilog-2001 text."""
+    """The core of ``spec`` as Verilog-2001 text (the multi-mode core for a spec with ``modes:``)."""
+    if spec.modes:
+        return render_multi_verilog(spec)
     ctx = build_context(Timing(spec))
     return environment().get_template("core/core.v.j2").render(ctx=ctx, v=_verilog_view(ctx))
 

@@ -5,12 +5,15 @@ from __future__ import annotations
 from synccore.emit._jinja import environment
 from synccore.emit._vhdl import bit, comment_lines, port_type
 from synccore.emit.core.context import CoreContext, build_context
+from synccore.emit.core.multi_vhdl import render_multi_vhdl
 from synccore.model import Timing
 from synccore.spec import Spec
 
 
 def render_vhdl(spec: Spec) -> str:
-    """The core of ``spec`` as VHDL text that analyses under -93 and -2008."""
+    """The core of ``spec`` as VHDL text that analyses under -93 and -2008 (multi-mode for ``modes:``)."""
+    if spec.modes:
+        return render_multi_vhdl(spec)
     ctx = build_context(Timing(spec))
     return environment().get_template("core/core.vhd.j2").render(ctx=ctx, v=_vhdl_view(ctx))
 
