@@ -236,13 +236,16 @@ _MODES_OPTION = {**_OPTION, "max_core_clock_hz": "--max-core-clock"}
 
 
 def load_specs(paths: tuple[str, ...]) -> list[Spec]:
-    """Every spec at ``paths``, or every problem of all of them and exit 2."""
+    """Every timing at ``paths`` (each mode of a multi-mode spec), or every problem of all of
+    them and exit 2."""
     specs, problems = [], []
     for path in paths:
         try:
-            specs.append(load(path))
+            spec = load(path)
         except SpecError as err:
             problems += err.problems
+            continue
+        specs += spec.modes or (spec,)
     if problems:
         fail(str(p) for p in problems)
     return specs
@@ -282,6 +285,8 @@ def run_modes(paths: tuple[str, ...], board_clock: str | None, family: str | Non
               no_pll: bool, max_core_clock: str | None, as_json: bool) -> None:  # fmt: skip
     """``clock A B ...``: plan the modes together and print the table and verdict (or JSON)."""
     specs = load_specs(paths)
+    if len(paths) != len(specs):  # a multi-mode spec: one path per mode, for the messages
+        paths = tuple(f"{s.name} mode {i}" for i, s in enumerate(specs))
     try:
         board, key = resolve_modes(specs, paths, board_clock, family, no_pll)
         plan = plan_modes(specs, board, key, max_core_clock_hz=max_core_clock)
@@ -297,6 +302,14 @@ def run_modes(paths: tuple[str, ...], board_clock: str | None, family: str | Non
     for line in table_lines(MODE_COLUMNS, modes_table(plan)):
         out.print(escape(line))
     _print_facts(verdict_facts(plan), out)
+
+
+def _multi_mode(path: str) -> bool:
+    """Whether the one SPEC given lists several modes (its problems are reported later)."""
+    try:
+        return bool(load(path).modes)
+    except SpecError:
+        return False
 
 
 @click.command()
@@ -319,14 +332,16 @@ def clock(specs: tuple[str, ...], board_clock: str | None, family: str | None, n
           max_core_clock: str | None) -> None:  # fmt: skip
     """Plan the core clock of SPEC from the board clock: PLL settings or a clock enable.
 
-    With several SPEC files (the modes one display is driven at), plan them together:
+    With several SPEC files, or a multi-mode SPEC (the modes one display is driven at),
+    plan them together:
     whether one PLL configuration serves every mode through clock-enable divides, or
     each mode needs its own PLL setting.
     """
-    if len(specs) > 1:
+    if len(specs) > 1 or _multi_mode(specs[0]):
         for given, option in ((link, "--link"), (write_to, "--write"), (force or None, "--force")):
             if given is not None:
-                fail(f"{option}: not available with several SPEC files; give one SPEC for it")
+                fail(f"{option}: not available when planning several modes (several SPEC files or a "
+                     "multi-mode spec); give one single-mode SPEC for it")  # fmt: skip
         run_modes(specs, board_clock, family, no_pll, max_core_clock, as_json)
         return
     if max_core_clock is not None:

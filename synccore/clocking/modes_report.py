@@ -25,10 +25,15 @@ MODE_COLUMNS = ("mode", "pixel clock wanted", "reached", "error", "divide", "tol
 
 
 def _names(plan: ModesPlan) -> list[str]:
-    """Each mode's name; the spec's source beside it where two modes share a name."""
+    """Each mode's name; the spec's source beside it where two modes share a name, the mode's
+    number and size where they share the source too."""
     names = [s.name for s in plan.specs]
-    return [n if names.count(n) == 1 else f"{n} ({s.source})" for n, s in zip(names, plan.specs,
-                                                                              strict=True)]
+    named = [n if names.count(n) == 1 else f"{n} ({s.source})" for n, s in zip(names, plan.specs,
+                                                                               strict=True)]
+    # the modes of one multi-mode spec share name and source: their number and size tell them apart
+    return [n if named.count(n) == 1 else
+            f"{s.name} mode {i} ({s.horizontal.active}x{s.vertical.active})"
+            for i, (n, s) in enumerate(zip(named, plan.specs, strict=True))]  # fmt: skip
 
 
 def _route(plan: ModesPlan, index: int) -> Route | None:

@@ -152,9 +152,10 @@ def test_bad_options_are_one_line(tmp_path: Path) -> None:
     one_line_error(["clock", *specs, "--board-clock", "12MHz", "--family", "ice40",
                     "--max-core-clock", "0"], r"--max-core-clock: must be a frequency .*")
     one_line_error(["clock", *specs, "--board-clock", "12MHz", "--write", "x.yaml"],
-                   r"--write: not available with several SPEC files; give one SPEC for it")
+                   r"--write: not available when planning several modes \(several SPEC files or a "
+                   r"multi-mode spec\); give one single-mode SPEC for it")
     one_line_error(["clock", *specs, "--board-clock", "12MHz", "--link", "dvi"],
-                   r"--link: not available with several SPEC files; give one SPEC for it")
+                   r"--link: not available when planning several modes .*")
     one_line_error(["clock", specs[0], "--board-clock", "12MHz", "--max-core-clock", "99MHz"],
                    r"--max-core-clock: applies only when planning several SPEC files together")
 
@@ -167,3 +168,21 @@ def test_every_bad_spec_is_reported(tmp_path: Path) -> None:
     assert len(lines) == 2
     assert re.match(r".*a\.yaml:2:\d+: pixel_clock_hz: ", lines[0])
     assert re.match(r".*b\.yaml:3:\d+: horizontal\.active: ", lines[1])
+
+
+def test_a_multi_mode_spec_plans_its_modes_as_the_files_would(tmp_path: Path) -> None:
+    """The modes of one spec (modes:) are planned as the same timings given as two files."""
+    multi = tmp_path / "pair.yaml"
+    multi.write_text("name: pair\nmodes:\n  - standard: 800x600@60\n  - standard: 1024x768@60\n"
+                     "core: {clock_enable: true}\n")  # fmt: skip
+    args = ["--board-clock", "100MHz", "--family", "xc7-mmcm", "--json"]
+    together = json.loads(run("clock", str(multi), *args)[1])
+    apart = json.loads(run("clock", *write(tmp_path, svga=SVGA, xga=XGA), *args)[1])
+    # 520 MHz = 40 MHz x 13 = 65 MHz x 8 (VESA DMT 09h, 10h pixel clocks, from memory)
+    assert together["shared"] == apart["shared"]
+    assert together["shared"]["divides"] == [13, 8]
+    text = run("clock", str(multi), *args[:-1])[1]
+    assert re.search(r"^pair mode 0 \(800x600\) +40\.000 MHz", text, re.M)
+    assert re.search(r"^pair mode 1 \(1024x768\) +65\.000 MHz", text, re.M)
+    one_line_error(["clock", str(multi), "--board-clock", "12MHz", "--write", "x.yaml"],
+                   r"--write: not available when planning several modes .*")
