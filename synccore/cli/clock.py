@@ -43,7 +43,7 @@ from synccore.clocking.report import (
     route_text,
     tolerance_text,
 )
-from synccore.errors import SpecError, ToolError
+from synccore.errors import Problem, SpecError, ToolError
 from synccore.spec import Spec
 from synccore.timings import load
 from synccore.units import fixed, hz
@@ -238,7 +238,8 @@ _MODES_OPTION = {**_OPTION, "max_core_clock_hz": "--max-core-clock"}
 def load_specs(paths: tuple[str, ...]) -> list[Spec]:
     """Every timing at ``paths`` (each mode of a multi-mode spec), or every problem of all of
     them and exit 2."""
-    specs, problems = [], []
+    specs: list[Spec] = []
+    problems: list[Problem] = []
     for path in paths:
         try:
             spec = load(path)
