@@ -4,10 +4,13 @@ For a 1920x1080 core (CTA-861 VIC 16 figures) over 2 frames, on each simulator:
 the measurement run through cocotb (clock and event log in HDL, Python woken
 once per frame), then the same harness run free with no Python at all, for the
 same simulated time.  Both are timed as whole simulator runs (start-up
-included, build excluded).  Prints cycles per second and the ratio free/cocotb
-(1.0: verify runs as fast as the simulator on its own).
+included, build excluded; the verify side also reads and measures the events).
+Prints cycles per second and the ratio free/cocotb (1.0: verify runs as fast as
+the simulator on its own), by wall time and by CPU time (user + system of this
+process and its children: steadier than wall time on a shared machine).  The
+free Verilator run is compiled with the same C++ flags as verify's build.
 
-    python benchmarks/verify_speed.py [--frames N] [--sim icarus,ghdl,verilator]
+    python benchmarks/verify_speed.py [--frames N] [--sim icarus,ghdl,verilator] [--repeat N]
 
 A benchmark, not a test: the figures go in the README.
 """
@@ -17,6 +20,7 @@ from __future__ import annotations
 import argparse
 import os
 import re
+import resource
 import subprocess
 import sys
 import tempfile
@@ -26,7 +30,7 @@ from pathlib import Path
 import synccore
 from synccore.emit.bench.harness import HARNESS_TOP, render_harness
 from synccore.verification.engines import run_engine
-from synccore.verification.simulate import VERILATOR_ARGS
+from synccore.verification.simulate import VERILATOR_ARGS, VERILATOR_MAKE
 from synccore.verification.tools import find
 
 SPEC = """\
@@ -46,16 +50,23 @@ def sim_end_ns(log: Path) -> int:
     return int(float(match.group(1)))
 
 
-def timed(cmd: list[str], cwd: Path, env: dict[str, str] | None = None) -> float:
+def cpu_seconds() -> float:
+    """User + system time of this process and its finished children so far."""
+    own, children = (resource.getrusage(w) for w in (resource.RUSAGE_SELF, resource.RUSAGE_CHILDREN))
+    return own.ru_utime + own.ru_stime + children.ru_utime + children.ru_stime
+
+
+def timed(cmd: list[str], cwd: Path, env: dict[str, str] | None = None) -> tuple[float, float]:
+    """Wall and CPU seconds of one run of ``cmd``."""
     full = dict(os.environ)
     full.update(env or {})
-    start = time.perf_counter()
+    start, cpu = time.perf_counter(), cpu_seconds()
     subprocess.run(cmd, cwd=cwd, env=full, check=True, stdout=subprocess.DEVNULL)
-    return time.perf_counter() - start
+    return time.perf_counter() - start, cpu_seconds() - cpu
 
 
-def free_run(sim: str, spec: synccore.Spec, stop_ns: int, work: Path) -> float:
-    """Seconds the harness takes to run free (no cocotb) for ``stop_ns`` of simulated time."""
+def free_run(sim: str, spec: synccore.Spec, stop_ns: int, work: Path) -> tuple[float, float]:
+    """Wall and CPU seconds the harness takes to run free (no cocotb) for ``stop_ns``."""
     tool = find(sim)
     assert tool is not None
     work.mkdir(parents=True, exist_ok=True)
@@ -74,8 +85,9 @@ def free_run(sim: str, spec: synccore.Spec, stop_ns: int, work: Path) -> float:
         subprocess.run(["iverilog", "-g2005", f"-D{define}", "-s", HARNESS_TOP, "-o", "free.vvp",
                         core.name, "harness.v"], cwd=work, check=True)  # fmt: skip
         return timed(["vvp", "-n", "free.vvp"], work)
-    subprocess.run(["verilator", "--binary", *VERILATOR_ARGS, f"-D{define}", "--top-module",
-                    HARNESS_TOP, "-Mdir", "obj", core.name, "harness.v"],
+    subprocess.run(["verilator", "--binary", *VERILATOR_ARGS, "-MAKEFLAGS", " ".join(VERILATOR_MAKE),
+                    f"-D{define}", "--top-module", HARNESS_TOP, "-Mdir", "obj", core.name,
+                    "harness.v"],
                    cwd=work, check=True, env={**os.environ, **tool.env},
                    stdout=subprocess.DEVNULL)  # fmt: skip
     return timed([f"obj/V{HARNESS_TOP}"], work, tool.env)
@@ -89,30 +101,34 @@ def main() -> int:
     args = parser.parse_args()
     spec = synccore.loads(SPEC, "bench_1080p.yaml")
     t = synccore.timing(spec)
-    print(f"{spec.name}: {t.frame_cycles} cycles per frame, {args.frames} frames")
-    print(f"{'simulator':<10} {'cocotb run':>11} {'M cycles/s':>11} {'free run':>9} "
-          f"{'M cycles/s':>11} {'ratio':>6}")  # fmt: skip
+    print(f"{spec.name}: {t.frame_cycles} cycles per frame, {args.frames} frames; "
+          f"load average {os.getloadavg()[0]:.1f} ({os.cpu_count()} cores)")  # fmt: skip
+    print(f"{'simulator':<10} {'verify':>8} {'M cyc/s':>8} {'free':>7} {'M cyc/s':>8} {'ratio':>6}"
+          f"   {'CPU: verify':>11} {'free':>6} {'ratio':>6}")  # fmt: skip
     with tempfile.TemporaryDirectory() as tmp:
         for sim in args.sim.split(","):
             if find(sim) is None:
                 print(f"{sim:<10} not found")
                 continue
-            # First run fills the build cache; the second is timed: the whole simulator run
+            # First run fills the build cache; the others are timed: the whole simulator run
             # through cocotb (start-up included, build excluded), plus reading the events.
             run_engine(spec, sim, frames=args.frames, work_dir=Path(tmp) / "warm")
-            walls = []
+            runs = []
             for attempt in range(args.repeat):
-                start = time.perf_counter()
+                start, cpu = time.perf_counter(), cpu_seconds()
                 run = run_engine(spec, sim, frames=args.frames, work_dir=Path(tmp) / f"t{attempt}")
-                walls.append(time.perf_counter() - start)
+                runs.append((time.perf_counter() - start, cpu_seconds() - cpu))
                 assert run.figures is not None and run.log is not None, run.error
-            wall = min(walls)
             stop_ns = sim_end_ns(run.log)
             cycles = stop_ns / CLOCK_NS
-            free = min(free_run(sim, spec, stop_ns, Path(tmp) / f"free-{sim}-{attempt}")
-                       for attempt in range(args.repeat))  # fmt: skip
-            print(f"{sim:<10} {wall:>10.2f}s {cycles / wall / 1e6:>11.3f} {free:>8.2f}s "
-                  f"{cycles / free / 1e6:>11.3f} {free / wall:>6.2f}")  # fmt: skip
+            free = [free_run(sim, spec, stop_ns, Path(tmp) / f"free-{sim}-{attempt}")
+                    for attempt in range(args.repeat)]  # fmt: skip
+            wall, free_wall = min(w for w, _ in runs), min(w for w, _ in free)
+            cpu, free_cpu = min(c for _, c in runs), min(c for _, c in free)
+            print(f"{sim:<10} {wall:>7.2f}s {cycles / wall / 1e6:>8.3f} {free_wall:>6.2f}s "
+                  f"{cycles / free_wall / 1e6:>8.3f} {free_wall / wall:>6.2f}   {cpu:>10.2f}s "
+                  f"{free_cpu:>5.2f}s {free_cpu / cpu:>6.2f}", flush=True)  # fmt: skip
+    print(f"load average at the end: {os.getloadavg()[0]:.1f} ({os.cpu_count()} cores)")
     return 0
 
 

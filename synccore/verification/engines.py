@@ -25,6 +25,11 @@ ENGINES = (*SIMULATORS, "builtin")
 ENGINE_LANGUAGE = {"icarus": "Verilog", "ghdl": "VHDL-2008", "verilator": "Verilog",
                    "builtin": "Amaranth model"}  # fmt: skip
 
+CLOCK_NS = 10
+"""The harness's clock period."""
+WORST_CE_SHARE = 0.25
+"""Far below the harness's clock-enable share (3 of 4 cycles): the deadline's margin."""
+
 Progress = Callable[[str, int], None]
 """Called with (engine, frames done) as a run goes."""
 
@@ -150,6 +155,10 @@ def _run_simulator(spec: Spec, t: Timing, run: EngineRun, run_dir: Path, *, fram
     progress_file = run_dir / "progress.txt"
     progress_file.write_text("0")
     events_file.unlink(missing_ok=True)
+    stop = stop_count(t, frames)
+    env = {"SYNCCORE_DEADLINE_NS": str(int((stop / WORST_CE_SHARE + 1000) * CLOCK_NS))}
+    if progress is not None:  # the bench wakes once per frame only when someone listens
+        env["SYNCCORE_PROGRESS"] = str(progress_file)
     with _polling(progress_file, engine, progress):
         result = run_bench(
             spec,
@@ -159,8 +168,8 @@ def _run_simulator(spec: Spec, t: Timing, run: EngineRun, run_dir: Path, *, fram
             harness=True,
             waves=waves,
             core_text=core_text,
-            env={"SYNCCORE_FRAMES": str(frames), "SYNCCORE_PROGRESS": str(progress_file)},
-            harness_args={"events": str(events_file.resolve()), "stop": stop_count(t, frames)},
+            env=env,
+            harness_args={"events": str(events_file.resolve()), "stop": stop},
         )
     run.log = result.log
     if waves:
