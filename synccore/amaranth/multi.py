@@ -23,9 +23,9 @@ Import this module only when needed: Amaranth is a required dependency, but slow
 from __future__ import annotations
 
 from collections.abc import Callable, Sequence
-from typing import Any
 from dataclasses import dataclass
 from pathlib import Path
+from typing import Any
 
 from amaranth.hdl import Array, Cat, ClockDomain, Const, Elaboratable, Module, Mux, Signal, Value
 from amaranth.lib import wiring
@@ -150,6 +150,7 @@ class _SwitchingHarness(Elaboratable):  # type: ignore[misc]
         self.core = core
         self.changes = list(changes)
         self.adv = Signal(32)  # advancing edges so far: after edge k, k
+        self.names = list(watched)
         self.watched = [getattr(core, name) for name in watched]
         self.mon = Signal(32 + sum(len(s) for s in self.watched) + len(core.x))
         self.hold = Signal()  # during reset: mode held at the last mode, whatever the sequence says
@@ -186,6 +187,18 @@ class _SwitchingHarness(Elaboratable):  # type: ignore[misc]
         m.d.comb += self.mon.eq(Cat(self.adv, core.x, *self.watched))
         return m
 
+    def decode(self, word: int) -> Seen:
+        """The edge count, outputs and ``mode_active`` packed in a value of ``mon``."""
+        adv, word = word & 0xFFFFFFFF, word >> 32
+        x_width = len(self.core.x)
+        x, word = word & ((1 << x_width) - 1), word >> x_width
+        values = {}
+        for name, signal in zip(self.names, self.watched, strict=True):
+            values[name], word = word & ((1 << len(signal)) - 1), word >> len(signal)
+        mode = values.pop("mode_active")
+        values["x"] = x
+        return Seen(adv, Outputs(**values), mode)
+
 
 @dataclass(frozen=True)
 class Seen:
@@ -220,21 +233,10 @@ def run_switching_builtin(spec: Spec, changes: Sequence[Change], edges: int, *,
     assert isinstance(component, MultiSyncCore)
     names = [*WATCHED, *(("x",) if every_cycle else ())]
     harness = _SwitchingHarness(component, changes, names)
-    widths = [len(getattr(component, name)) for name in names]
-    x_width = len(component.x)
+    decode = harness.decode
     want_reset = (component.multi.reset_outputs(), 0)
     seen: list[Seen] = []
     reset_problems: list[str] = []
-
-    def decode(word: int) -> Seen:
-        adv, word = word & 0xFFFFFFFF, word >> 32
-        x, word = word & ((1 << x_width) - 1), word >> x_width
-        values = {}
-        for name, width in zip(names, widths, strict=True):
-            values[name], word = word & ((1 << width) - 1), word >> width
-        mode = values.pop("mode_active")
-        values["x"] = x
-        return Seen(adv, Outputs(**values), mode)
 
     async def bench(ctx: Any) -> None:
         ctx.set(harness.hold, 1)

@@ -5,8 +5,8 @@ from __future__ import annotations
 import sys
 import tempfile
 import time
-from typing import TYPE_CHECKING
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from rich.console import Console
 from rich.table import Table

@@ -12,8 +12,8 @@ It checks the Amaranth model (:mod:`synccore.amaranth.multi`), not the emitted t
 
 from __future__ import annotations
 
-from collections.abc import Callable
 import json
+from collections.abc import Callable
 from dataclasses import asdict
 from pathlib import Path
 

@@ -66,7 +66,7 @@ def test_every_cycle_and_every_frame_match_the_model(name: str) -> None:
     want = list(mt.outputs(sequence, edges))
     assert len(got) == len(want) == edges
     bad = [k + 1 for k, (g, w) in enumerate(zip(got, want, strict=True)) if g != w]
-    assert not bad, f"{len(bad)} cycles differ, first at edge {bad[0]}: {got[bad[0] - 1]} vs {want[bad[0] - 1]}"
+    assert not bad, f"{len(bad)} cycles differ; at edge {bad[0]}: {got[bad[0] - 1]}, want {want[bad[0] - 1]}"
     frames = measure_frames(run, mt)
     assert not judge_frames(frames, mt, sequence)
     model = {f.first_edge: f.mode for f in mt.frames(sequence, edges)}
