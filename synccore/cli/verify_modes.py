@@ -112,12 +112,37 @@ def _frames_table(spec: Spec, mt: MultiTiming, engine: str, run: SwitchingRun) -
 
 
 def _agreement(first: str, runs: dict[str, SwitchingRun]) -> str:
-    """Which engines that drove the same sequence measured the same frames as ``first``."""
+    """Which engines measured the same frames as ``first``: all of them when they drove the
+    same sequence, else those that end before the sequences part (the built-in engine's
+    shorter default begins as the others' does)."""
     base = runs[first]
-    same = [e for e, r in runs.items() if r.changes == base.changes and r.frames == base.frames]
-    other = [e for e, r in runs.items() if r.changes == base.changes and e not in same]
-    line = f"the same frames measured by: {', '.join(same)}"
+    same, other, partial = [], [], []
+    for engine, run in runs.items():
+        frames_a, frames_b = _common(base, run)
+        if frames_a != frames_b:
+            other.append(engine)
+        elif run.changes == base.changes:
+            same.append(engine)
+        else:
+            partial.append(f"{engine} (its first {len(frames_b)}, while the sequences agree)")
+    line = f"the same frames measured by: {', '.join(same + partial)}"
     return line + (f"; different frames: {', '.join(other)}" if other else "")
+
+
+def _common(a: SwitchingRun, b: SwitchingRun) -> tuple[list[dict[str, object]], list[dict[str, object]]]:
+    """The frames of ``a`` and ``b`` that end before their sequences of changes part."""
+    if a.changes == b.changes:
+        return a.frames, b.frames
+    agree = next((i for i, (x, y) in enumerate(zip(a.changes, b.changes, strict=False)) if x != y),
+                 min(len(a.changes), len(b.changes)))  # fmt: skip
+    parting = [run.changes[agree][0] for run in (a, b) if agree < len(run.changes)]
+    limit = min([*parting, a.edges, b.edges])  # a change from here on is not in both; nor is an edge
+
+    def before(run: SwitchingRun) -> list[dict[str, object]]:
+        return [f for f in run.frames
+                if int(f["first_edge"]) + sum(f["lines"]) - 1 < limit]  # type: ignore[call-overload]
+
+    return before(a), before(b)
 
 
 def _failure_lines(log: str) -> list[str]:
