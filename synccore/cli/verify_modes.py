@@ -25,8 +25,8 @@ CYCLES_BENCH_LIMIT = 20_000
 DEFAULT_CHANGES = 3
 BUILTIN_CHANGES = 1
 """The built-in engine's changes on modes over ``CYCLES_BENCH_LIMIT`` cycles when ``--changes``
-is not given: Amaranth's simulator runs 20 000 to 40 000 cycles a second here (2 cores shared
-with other jobs), so one change among the example's modes (about 3.4 million cycles) took 89
+is not given: Amaranth's simulator runs 20 000 to 55 000 cycles a second here (2 cores shared
+with other jobs), so one change among the example's modes (about 3.4 million cycles) took 62
 to 153 s."""
 
 

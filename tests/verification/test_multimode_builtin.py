@@ -4,9 +4,9 @@ The same seeded sequences as the simulator benches (tests/verification/test_mult
 every cycle compared with the model (``MultiTiming``) here in the test, every frame judged
 against its own mode; a faulty model (the mode input in force at once, mid-frame) must fail
 naming the fault; the command line runs builtin beside the simulators and prints the same
-frames.  No simulator needed; about 40 s in all here.  The examples' full-size modes take 90
-to 150 s on builtin here (one change, about 3.4 million cycles, 2 shared cores):
-``SYNCCORE_SLOW=1`` runs them.
+frames.  No simulator needed but for the comparison with Icarus; about 30 s in all here.  The
+examples' full-size modes take 60 to 150 s on builtin here (one change, about 3.4 million
+cycles, 2 shared cores): ``SYNCCORE_SLOW=1`` runs them.
 """
 
 from __future__ import annotations
@@ -112,7 +112,7 @@ def test_the_cli_runs_builtin_and_says_its_default(tmp_path: Path) -> None:
     assert "every frame is a whole frame of its mode" in result.stdout
 
 
-SLOW_ONLY = pytest.mark.skipif(not SLOW, reason="90 to 150 s on builtin; SYNCCORE_SLOW=1 runs it")
+SLOW_ONLY = pytest.mark.skipif(not SLOW, reason="60 to 150 s on builtin; SYNCCORE_SLOW=1 runs it")
 
 
 @SLOW_ONLY
