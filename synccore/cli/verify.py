@@ -96,13 +96,14 @@ def run_verify(spec: Spec, *, engines: list[str] | None, frames: int, waves: boo
 @click.option("--work-dir", type=click.Path(file_okay=False),
               help="Keep run folders here (default: a temporary folder; with --waves, "
                    "./<name>_verify).")
-@click.option("--changes", default=3, show_default=True, type=click.IntRange(1, 1000),
+@click.option("--changes", type=click.IntRange(1, 1000),
               help="Multi-mode specs: mode changes driven; the first visit every mode in turn, "
-                   "the rest come at random cycles.")
+                   "the rest come at random cycles (default 3; 1 for the built-in engine on "
+                   "modes over 20 000 cycles a frame).")
 @click.option("--seed", default=1, show_default=True, type=int,
               help="Multi-mode specs: seed of the switching sequence.")
 def verify_command(spec: str, sims: str | None, frames: int, waves: bool,
-                   work_dir: str | None, changes: int, seed: int) -> None:  # fmt: skip
+                   work_dir: str | None, changes: int | None, seed: int) -> None:  # fmt: skip
     """Generate SPEC's core, run it in every simulator found, and measure it against the spec.
 
     A multi-mode spec (modes:) is run through a seeded sequence of mode changes instead:
