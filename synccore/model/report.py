@@ -33,10 +33,18 @@ def figures(t: Timing) -> list[tuple[str, str]]:
     ]
     if t.ppc > 1:
         rows.append(("core clock", f"{hz(t.core_clock_hz)} ({t.ppc} pixels per clock)"))
+    rows.append(("line rate", f"{in_unit(t.line_rate_hz, 'kHz')} kHz"))
+    if t.interlaced:
+        back = t.spec.vertical.back_porch
+        rows += [
+            ("field rate", f"{fixed(t.refresh_hz, 3)} Hz (frames at {fixed(t.frame_rate_hz, 3)} Hz)"),
+            ("fields", f"field 0: {t.field_lines(0)} lines (back porch {back + 1}), "
+                       f"field 1: {t.field_lines(1)} lines (back porch {back})"),
+        ]  # fmt: skip
+    else:
+        rows.append(("refresh", f"{fixed(t.refresh_hz, 3)} Hz"))
     rows += [
-        ("line rate", f"{in_unit(t.line_rate_hz, 'kHz')} kHz"),
-        ("refresh", f"{fixed(t.refresh_hz, 3)} Hz"),
-        ("frame", f"{t.spec.horizontal.total} x {t.spec.vertical.total} pixels in all, "
+        ("frame", f"{t.spec.horizontal.total} x {t.frame_lines} pixels in all, "
                   f"{t.frame_cycles} cycles"),
         ("blanking share", percent(t.blanking_share)),
     ]  # fmt: skip

@@ -9,8 +9,9 @@
 --
 -- pixel clock       27.000 MHz
 -- line rate         15.734 kHz
--- refresh           59.940 Hz
--- frame             1716 x 262 pixels in all, 900900 cycles
+-- field rate        59.940 Hz (frames at 29.970 Hz)
+-- fields            field 0: 263 lines (back porch 16), field 1: 262 lines (back porch 15)
+-- frame             1716 x 525 pixels in all, 900900 cycles
 -- blanking share    23.1 %
 -- pixels per clock  1
 -- clock enable      no
