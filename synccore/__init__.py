@@ -6,7 +6,8 @@ model every test checks against), written as Verilog-2001 and VHDL cores with
 optional benches, test-pattern design and clock wrapper (:func:`write`,
 :func:`plan_clock`, :func:`adjusted_spec` when the board cannot make the clock;
 :func:`plan_modes` for several modes from one board clock),
-measured in simulation (:func:`verify`) and proved for all time (:func:`prove`).
+measured in simulation (:func:`verify`; :func:`verify_modes` for a multi-mode spec) and
+proved for all time (:func:`prove`).
 Standard timings come from :func:`find_mode`.
 
 This package exports the curated API of :mod:`synccore.api` and nothing else;
@@ -22,6 +23,7 @@ from synccore.api import (
     Location,
     Mode,
     ModesPlan,
+    ModesReport,
     Outputs,
     Problem,
     ProofResult,
@@ -47,6 +49,7 @@ from synccore.api import (
     render_vhdl,
     timing,
     verify,
+    verify_modes,
     write,
 )
 
@@ -59,6 +62,7 @@ __all__ = [
     "Location",
     "Mode",
     "ModesPlan",
+    "ModesReport",
     "Outputs",
     "Problem",
     "ProofResult",
@@ -84,5 +88,6 @@ __all__ = [
     "render_vhdl",
     "timing",
     "verify",
+    "verify_modes",
     "write",
 ]

@@ -43,14 +43,16 @@ from synccore.spec.schema import json_schema
 from synccore.timings import load, loads
 from synccore.timings.modes import Mode, ModeLookupError, find
 from synccore.units import hz
-from synccore.verification.engines import ENGINES, Progress, Report, available_engines, cocotb_missing
+from synccore.verification.choosing import pick_engines
+from synccore.verification.engines import Progress, Report
 from synccore.verification.engines import verify as run_engines
 from synccore.verification.fitting import fit
+from synccore.verification.modes_verify import ModesReport, run_modes
 from synccore.verification.prove import ProofResult, prove
-from synccore.verification.tools import INSTALL_HINT, unusable
 
 __all__ = [
     "Axis", "ClockPlan", "CoreOptions", "DacDesign", "LinkPlan", "Location", "Mode", "ModesPlan",
+    "ModesReport",
     "Outputs", "Problem", "ProofResult", "Report", "Spec", "SpecError", "Timing", "ToolError",
     "__version__",
     "adjusted_spec",
@@ -68,6 +70,7 @@ __all__ = [
     "render_vhdl",
     "timing",
     "verify",
+    "verify_modes",
     "write",
 ]
 
@@ -205,49 +208,6 @@ def _check_reached(plan: ClockPlan) -> None:
                         f"from {hz(plan.f_board)}")  # fmt: skip
 
 
-def pick_engines(engines: Sequence[str] | None = None) -> list[str]:
-    """The engines :func:`verify` runs for ``engines``; raises :class:`ToolError` if it cannot.
-
-    ``None`` means every simulator found here (Icarus Verilog, GHDL, Verilator),
-    or the built-in engine (Amaranth's simulator on the Amaranth model) when none
-    is; :func:`synccore.verification.engines.unusable_engines` names those installed
-    but unusable, with the fix.  Otherwise every name must be one of ``icarus``, ``ghdl``, ``verilator``,
-    ``builtin`` and must be able to run here.
-    """
-    found = available_engines()
-    if engines is None:
-        # The real simulators check the emitted text; the built-in engine (much slower, and
-        # checking the Amaranth model) is the fallback when none is installed.
-        chosen = [e for e in found if e != "builtin"] or found
-        if not chosen:
-            raise ToolError("no engine found: install a simulator (see README) or Amaranth")
-        return chosen
-    if isinstance(engines, str):
-        raise TypeError(f"engines must be a list of names, like [{engines!r}], not a string")
-    names = list(engines)
-    unknown = [n for n in names if n not in ENGINES]
-    if unknown or not names:
-        what = f"unknown engine {unknown[0]!r}" if unknown else "no engine named"
-        raise ToolError(f"{what}; choose from {', '.join(ENGINES)}")
-    missing = [n for n in names if n not in found]
-    if missing:
-        raise ToolError("; ".join(_not_found(n) for n in missing))
-    return names
-
-
-def _not_found(engine: str) -> str:
-    """Why ``engine`` cannot run, in one line with its fix: installed but unusable, or missing."""
-    if engine not in INSTALL_HINT:
-        return f"engine {engine!r} not found: install the PyPI package 'amaranth'"
-    why = unusable(engine)
-    if why is not None:
-        return f"engine {why}"
-    if cocotb_missing():
-        return (f"engine {engine!r} not found: {INSTALL_HINT[engine]}; the simulators also need "
-                "cocotb: pip install synccore")  # fmt: skip
-    return f"engine {engine!r} not found: {INSTALL_HINT[engine]}"
-
-
 def verify(
     spec: Spec,
     *,
@@ -271,17 +231,38 @@ def verify(
     unless ``work_dir`` is given.  ``progress`` is called with ``(engine, frames done)``.
 
     Raises :class:`ToolError` for an unknown engine or one that cannot run here, or a
-    multi-mode spec (``synccore verify`` runs its switching bench); ``ValueError`` for fewer
+    multi-mode spec (:func:`verify_modes` runs its switching bench); ``ValueError`` for fewer
     than 2 frames (a frame's figures are measured between two frame starts).
     """
     if spec.modes:
-        raise ToolError("a multi-mode spec is verified by its switching bench: synccore verify")
+        raise ToolError("a multi-mode spec is verified by its switching bench: verify_modes")
     if isinstance(frames, bool) or not isinstance(frames, int) or frames < 2:
         raise ValueError(f"frames must be a whole number of at least 2, got {frames!r}")
     names = pick_engines(engines)
     return run_engines(spec, engines=names, frames=frames, waves=waves,
                        work_dir=Path(work_dir) if work_dir is not None else None,
                        progress=progress)  # fmt: skip
+
+
+def verify_modes(spec: Spec, *, engines: Sequence[str] | None = None, changes: int | None = None,
+                 seed: int = 1, work_dir: str | Path | None = None) -> ModesReport:  # fmt: skip
+    """Verify a multi-mode spec's core: ``changes`` seeded mode changes (default 3; 1 on the
+    built-in engine for modes over 20 000 cycles a frame) on each engine, as :func:`verify`
+    picks them; every frame judged as a whole frame of the mode ``mode_active`` names, every
+    change against the switching rule (docs/multimode.md).  ``report.ok``; ``report.problems()``
+    in the benches' words; ``report.runs[engine].frames`` the frames measured.
+
+    Raises :class:`ToolError` for an engine that cannot run here; ``ValueError`` for a
+    single-mode spec (use :func:`verify`) or fewer than 1 change.
+    """
+    if not spec.modes:
+        raise ValueError("verify_modes takes a multi-mode spec (modes:); verify a single timing "
+                         "with verify")  # fmt: skip
+    if changes is not None and (isinstance(changes, bool) or not isinstance(changes, int)
+                                or changes < 1):  # fmt: skip
+        raise ValueError(f"changes must be a whole number of at least 1, got {changes!r}")
+    return run_modes(spec, pick_engines(engines), changes=changes, seed=seed,
+                     work_dir=Path(work_dir) if work_dir is not None else None)  # fmt: skip
 
 
 def _board_clock(value: object) -> Fraction:

@@ -22,6 +22,7 @@ from click.testing import CliRunner
 
 import synccore
 import synccore.api
+import synccore.verification.choosing
 from synccore.cli.main import main
 from tests import samples as timings
 from tests.conftest import ROOT
@@ -33,7 +34,7 @@ CURATED = {
     "load", "loads", "timing", "write", "verify", "plan_clock", "plan_dvi_link", "plan_modes",
     "adjusted_spec", "adjusted_text", "find_mode", "fit", "prove", "ProofResult", "design_dac", "DacDesign",
     "Spec", "Timing", "Axis", "CoreOptions", "Outputs", "ClockPlan", "LinkPlan", "ModesPlan", "Mode",
-    "Report",
+    "Report", "verify_modes", "ModesReport",
     "SpecError", "ToolError", "Problem", "Location",
     "json_schema", "render_verilog", "render_vhdl", "__version__",
 }  # fmt: skip
@@ -389,13 +390,13 @@ def test_verify_missing_simulators(tmp_path: Path, monkeypatch: pytest.MonkeyPat
         synccore.verify(spec, engines=["icarus", "builtin", "ghdl"])
     assert str(err.value) == (f"engine 'icarus' not found: {_hint('icarus')}; "
                               f"engine 'ghdl' not found: {_hint('ghdl')}")  # fmt: skip
-    chosen = synccore.api.pick_engines(None)
+    chosen = synccore.verification.choosing.pick_engines(None)
     assert "icarus" not in chosen and "ghdl" not in chosen
     assert ("builtin" in chosen) == (chosen == ["builtin"])  # builtin only when no simulator
 
 
 def test_default_engines_prefer_the_simulators() -> None:
-    chosen = synccore.api.pick_engines(None)
+    chosen = synccore.verification.choosing.pick_engines(None)
     assert chosen and set(chosen) <= {"icarus", "ghdl", "verilator", "builtin"}
     assert ("builtin" in chosen) == (chosen == ["builtin"])
 
@@ -479,3 +480,24 @@ def test_a_fitted_spec_keeps_its_ranges_through_to_dict() -> None:
     assert spec.fit.tolerance is None  # left to the default
     again = from_dict(to_dict(spec))
     assert again.fit == spec.fit and hash(again.fit) == hash(spec.fit)
+
+
+def test_verify_modes_judges_every_frame_on_each_engine(tmp_path: Path) -> None:
+    """The API's multi-mode verification: 20 seeded changes among 3 small modes (made up)."""
+    spec = synccore.loads(timings.MULTI_SMALL, "small.yaml")
+    found = synccore.verification.choosing.available_engines()
+    engines = [e for e in ("icarus", "builtin") if e in found]
+    if not engines:
+        pytest.skip("neither Icarus nor Amaranth here")
+    report = synccore.verify_modes(spec, engines=engines, changes=20, seed=5, work_dir=tmp_path)
+    assert report.ok, report.problems()
+    assert report.problems() == [] and report.bench == "cycles"
+    for run in report.runs.values():
+        assert len(run.changes) == 20
+        assert {f["mode"] for f in run.frames} == {0, 1, 2}
+    with pytest.raises(synccore.ToolError, match="verify_modes"):
+        synccore.verify(spec)
+    with pytest.raises(ValueError, match="multi-mode spec"):
+        synccore.verify_modes(synccore.loads(timings.DMT_640x480))
+    with pytest.raises(ValueError, match="at least 1"):
+        synccore.verify_modes(spec, changes=0)

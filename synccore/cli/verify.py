@@ -9,11 +9,12 @@ import click
 from rich.console import Console
 from rich.table import Table
 
-from synccore.api import pick_engines, verify
+from synccore.api import verify
 from synccore.cli._common import FAILED, console, fail, load_spec
 from synccore.errors import ToolError
 from synccore.model import Timing
 from synccore.spec import Spec
+from synccore.verification.choosing import pick_engines
 
 
 def _engines_option(value: str | None) -> list[str] | None:

@@ -3,32 +3,21 @@
 from __future__ import annotations
 
 import sys
-import tempfile
-import time
 from pathlib import Path
 from typing import TYPE_CHECKING
 
 from rich.console import Console
 from rich.table import Table
 
-from synccore.api import pick_engines
 from synccore.cli._common import FAILED, fail
 from synccore.errors import ToolError
 from synccore.model import MultiTiming
 from synccore.spec import Spec
+from synccore.verification.choosing import pick_engines
+from synccore.verification.modes_verify import CYCLES_BENCH_LIMIT, agreement, change_counts, run_modes
 
 if TYPE_CHECKING:
     from synccore.verification.multimode_run import SwitchingRun
-
-CYCLES_BENCH_LIMIT = 20_000
-"""Longest frame (cycles) the every-cycle bench takes; longer modes run the events bench."""
-DEFAULT_CHANGES = 3
-BUILTIN_CHANGES = 1
-"""The built-in engine's changes on modes over ``CYCLES_BENCH_LIMIT`` cycles when ``--changes``
-is not given: Amaranth's simulator runs 20 000 to 55 000 cycles a second here (2 cores shared
-with other jobs), so one change among the example's modes (about 3.4 million cycles) took 62
-to 153 s."""
-
 
 def run_verify_modes(spec: Spec, *, engines: list[str] | None, changes: int | None, seed: int,
                      work_dir: str | None, out: Console) -> None:  # fmt: skip
@@ -39,10 +28,7 @@ def run_verify_modes(spec: Spec, *, engines: list[str] | None, changes: int | No
     except ToolError as err:
         fail(str(err))
     mt = MultiTiming(spec)
-    longest = max(t.frame_cycles for t in mt.modes)
-    bench = "cycles" if longest <= CYCLES_BENCH_LIMIT else "events"
-    count = {e: changes or (BUILTIN_CHANGES if e == "builtin" and bench == "events" else DEFAULT_CHANGES)
-             for e in engines}  # fmt: skip
+    bench, count = change_counts(spec, engines, changes)
     first = count[engines[0]]
     visits = min(first, mt.count - 1)
     tour = f"the first visit modes 1 to {visits}" if visits > 1 else "the first visits mode 1"
@@ -53,43 +39,21 @@ def run_verify_modes(spec: Spec, *, engines: list[str] | None, changes: int | No
         out.print(f"builtin: {count['builtin']} change (its default on modes over "
                   f"{CYCLES_BENCH_LIMIT:,} cycles a frame, Amaranth's simulator being slow; "
                   "--changes sets it); its sequence begins as the others' does")  # fmt: skip
-    failed = []
-    with tempfile.TemporaryDirectory(prefix="synccore-modes-") as tmp:
-        root = Path(work_dir) if work_dir else Path(tmp)
-        runs = {}
-        for engine in engines:
-            start = time.monotonic()
-            runs[engine] = run = _run(spec, engine, root / engine, seed=seed, changes=count[engine],
-                                      bench=bench)  # fmt: skip
-            seconds = time.monotonic() - start
-            verdict = "ok" if run.passed else "FAIL"
-            out.print(f"{engine}: {verdict}, {run.edges} cycles in {seconds:.1f} s, "
-                      f"{len(run.frames)} whole frames measured")  # fmt: skip
-            if not run.passed:
-                failed.append((engine, _failure_lines(run.result.log.read_text())))
-        shown = next(((e, r) for e, r in runs.items() if r.frames), None)
-        if shown is not None:
-            out.print(_frames_table(spec, mt, *shown))
-            out.print(_agreement(shown[0], runs))
-    for engine, lines in failed:
-        for line in lines:
-            print(f"FAIL {engine}: {line}", file=sys.stderr)
-    if failed:
+    report = run_modes(spec, engines, changes=changes, seed=seed,
+                       work_dir=Path(work_dir) if work_dir else None)  # fmt: skip
+    for engine, run in report.runs.items():
+        verdict = "ok" if run.passed else "FAIL"
+        out.print(f"{engine}: {verdict}, {run.edges} cycles in {report.seconds[engine]:.1f} s, "
+                  f"{len(run.frames)} whole frames measured")  # fmt: skip
+    shown = next(((e, r) for e, r in report.runs.items() if r.frames), None)
+    if shown is not None:
+        out.print(_frames_table(spec, mt, *shown))
+        out.print(agreement(shown[0], report.runs))
+    for line in report.problems():
+        print(f"FAIL {line}", file=sys.stderr)
+    if not report.ok:
         sys.exit(FAILED)
     out.print("every frame is a whole frame of its mode, and every output matches the model")
-
-
-def _run(spec: Spec, engine: str, run_dir: Path, *, seed: int, changes: int, bench: str) -> SwitchingRun:
-    """One engine's switching run: a simulator's bench, or the Amaranth model (builtin)."""
-    if engine == "builtin":
-        from synccore.verification.multimode_builtin import run_builtin_switching
-
-        return run_builtin_switching(spec, run_dir=run_dir, seed=seed, changes=changes, bench=bench,
-                                     tour=True)  # fmt: skip
-    from synccore.verification.multimode_run import run_switching
-
-    return run_switching(spec, simulator=engine, run_dir=run_dir, seed=seed, changes=changes,
-                         bench=bench, tour=True)  # fmt: skip
 
 
 def _frames_table(spec: Spec, mt: MultiTiming, engine: str, run: SwitchingRun) -> Table:
@@ -110,44 +74,3 @@ def _frames_table(spec: Spec, mt: MultiTiming, engine: str, run: SwitchingRun) -
         lines = str(count) if t is None or count == t.v_total else f"[bold red]{count}[/]"
         table.add_row(str(f["index"]), str(f["first_edge"]), str(mode), lines, *cells)
     return table
-
-
-def _agreement(first: str, runs: dict[str, SwitchingRun]) -> str:
-    """Which engines measured the same frames as ``first``: all of them when they drove the
-    same sequence, else those that end before the sequences part (the built-in engine's
-    shorter default begins as the others' does)."""
-    base = runs[first]
-    same, other, partial = [], [], []
-    for engine, run in runs.items():
-        frames_a, frames_b = _common(base, run)
-        if frames_a != frames_b:
-            other.append(engine)
-        elif run.changes == base.changes:
-            same.append(engine)
-        else:
-            partial.append(f"{engine} (its first {len(frames_b)}, while the sequences agree)")
-    line = f"the same frames measured by: {', '.join(same + partial)}"
-    return line + (f"; different frames: {', '.join(other)}" if other else "")
-
-
-def _common(a: SwitchingRun, b: SwitchingRun) -> tuple[list[dict[str, object]], list[dict[str, object]]]:
-    """The frames of ``a`` and ``b`` that end before their sequences of changes part."""
-    if a.changes == b.changes:
-        return a.frames, b.frames
-    agree = next((i for i, (x, y) in enumerate(zip(a.changes, b.changes, strict=False)) if x != y),
-                 min(len(a.changes), len(b.changes)))  # fmt: skip
-    parting = [run.changes[agree][0] for run in (a, b) if agree < len(run.changes)]
-    limit = min([*parting, a.edges, b.edges])  # a change from here on is not in both; nor is an edge
-
-    def before(run: SwitchingRun) -> list[dict[str, object]]:
-        return [f for f in run.frames
-                if int(f["first_edge"]) + sum(f["lines"]) - 1 < limit]  # type: ignore[call-overload]
-
-    return before(a), before(b)
-
-
-def _failure_lines(log: str) -> list[str]:
-    """The judged problems the bench wrote into its log (its assertion message)."""
-    keep = [line.strip() for line in log.splitlines()
-            if line.strip().startswith(("frame ", "edge ", "in reset", "no whole frame", "..."))]  # fmt: skip
-    return keep[:30] or ["the bench did not finish; see its log"]
