@@ -303,9 +303,9 @@ class Timing(FieldRules):
 
     @property
     def blanking_share(self) -> Fraction:
-        """Share of the frame's pixel periods that are not visible."""
+        """Share of the frame's pixel periods that are not visible (both fields when interlaced)."""
         h, v = self.spec.horizontal, self.spec.vertical
-        return 1 - Fraction(h.active * v.active, h.total * v.total)
+        return 1 - Fraction(h.active * v.active * self.fields, h.total * self.frame_lines)
 
     # --------------------------------------------------------------- reference
     def outputs_at(self, q: int) -> Outputs:

@@ -12,7 +12,7 @@
 -- field rate        59.940 Hz (frames at 29.970 Hz)
 -- fields            field 0: 263 lines (back porch 16), field 1: 262 lines (back porch 15)
 -- frame             1716 x 525 pixels in all, 900900 cycles
--- blanking share    23.1 %
+-- blanking share    23.3 %
 -- pixels per clock  1
 -- clock enable      no
 -- reset             async_low

@@ -46,6 +46,14 @@ def test_dmt_640x480_totals() -> None:
     assert fixed(t.blanking_share * 100, 1) == "26.9"
 
 
+def test_interlaced_blanking_share_counts_both_fields() -> None:
+    # CTA-861 VIC 6/7, 480i (from memory): 720 x 480 picture pixels of 858 x 525 per frame,
+    # each pixel sent twice; 1 - 345600/450450 = 23.28 %, the same in pixel clocks.
+    t = synccore.timing(synccore.loads("name: tv\nstandard: '720x480i@59.94'\n"))
+    assert t.blanking_share == 1 - Fraction(720 * 480, 858 * 525)
+    assert fixed(t.blanking_share * 100, 1) == "23.3"
+
+
 def test_widths() -> None:
     t = t_of(timings.DMT_640x480)
     assert (t.h_width, t.v_width, t.x_width, t.y_width) == (10, 10, 10, 9)
