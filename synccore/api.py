@@ -18,11 +18,11 @@ from pathlib import Path
 
 from synccore._version import __version__
 from synccore.analog import DacDesign, design_dac
-from synccore.clocking import FAMILIES, FAMILY_KEYS, Family, advice
+from synccore.clocking import advice
 from synccore.clocking.link import LinkPlan, plan_link
 from synccore.clocking.link_report import link_refusal
 from synccore.clocking.modes import ModesPlan, plan_modes
-from synccore.clocking.plan import ClockPlan, make_plan
+from synccore.clocking.plan import ClockPlan, family_argument, frequency_argument, make_plan
 from synccore.clocking.report import miss_text
 from synccore.emit import render_verilog, render_vhdl
 from synccore.emit.files import (
@@ -38,7 +38,7 @@ from synccore.emit.files import (
 from synccore.errors import Location, Problem, SpecError, ToolError
 from synccore.model import Outputs, Timing, timing
 from synccore.model.pattern import PATTERNS, pattern_problems
-from synccore.spec import Axis, CoreOptions, Spec, parse_frequency
+from synccore.spec import Axis, CoreOptions, Spec
 from synccore.spec.schema import json_schema
 from synccore.timings import load, loads
 from synccore.timings.modes import Mode, ModeLookupError, find
@@ -265,27 +265,6 @@ def verify_modes(spec: Spec, *, engines: Sequence[str] | None = None, changes: i
                      work_dir=Path(work_dir) if work_dir is not None else None)  # fmt: skip
 
 
-def _board_clock(value: object) -> Fraction:
-    number = Fraction(value) if isinstance(value, Decimal) and value.is_finite() else value
-    try:
-        f_board = parse_frequency(number)
-    except (ArithmeticError, ValueError):  # a float infinity or NaN
-        f_board = None
-    if f_board is None or f_board <= 0:
-        raise ToolError(f'must be a frequency like "12MHz" or "27 MHz", got {value!r}',
-                        subject="board_clock_hz")  # fmt: skip
-    return f_board
-
-
-def _family(key: object) -> Family | None:
-    if key is None:
-        return None
-    if not isinstance(key, str) or key not in FAMILIES:
-        raise ToolError(f"unknown FPGA family {key!r}; choose from {', '.join(FAMILY_KEYS)}",
-                        subject="family")  # fmt: skip
-    return FAMILIES[key]
-
-
 def plan_clock(
     spec: Spec,
     board_clock_hz: int | float | Fraction | Decimal | str,
@@ -312,7 +291,7 @@ def plan_clock(
     family reaches the core clock; ``strict=False`` returns such a plan
     (``plan.best is None``) so that it can tell why.
     """
-    plan = make_plan(spec, f_board=_board_clock(board_clock_hz), family=_family(family))
+    plan = make_plan(spec, f_board=frequency_argument(board_clock_hz), family=family_argument(family))
     if strict:
         _check_reached(plan)
     return plan
@@ -330,8 +309,8 @@ def plan_dvi_link(
     the link still needs (iCE40: core.clock_enable), which
     :func:`synccore.clocking.link.link_problems` also gives.
     """
-    f_board = _board_clock(board_clock_hz)
-    fam = _family(family)
+    f_board = frequency_argument(board_clock_hz)
+    fam = family_argument(family)
     if fam is None:
         raise ToolError("a DVI link needs a PLL: name the FPGA family", subject="family")
     return plan_link(spec, f_board=f_board, family=fam)

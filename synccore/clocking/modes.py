@@ -38,11 +38,11 @@ from decimal import Decimal
 from fractions import Fraction
 
 from synccore.clocking import adjust
-from synccore.clocking.families import FAMILIES, FAMILY_KEYS, Family
-from synccore.clocking.plan import ClockPlan, make_plan
+from synccore.clocking.families import FAMILY_KEYS, Family
+from synccore.clocking.plan import ClockPlan, family_argument, frequency_argument, make_plan
 from synccore.clocking.solve import EnableSetting, Setting, reachable
 from synccore.errors import ToolError
-from synccore.spec import Spec, parse_frequency
+from synccore.spec import Spec
 from synccore.units import hz
 
 __all__ = ["RECONFIGURATION", "ModesPlan", "SharedClock", "plan_modes", "shared_clock"]
@@ -214,27 +214,6 @@ def shared_clock(plans: Sequence[ClockPlan], family: Family, f_board: Fraction,
     return None
 
 
-def _frequency(value: object, subject: str) -> Fraction:
-    number = Fraction(value) if isinstance(value, Decimal) and value.is_finite() else value
-    try:
-        f = parse_frequency(number)
-    except (ArithmeticError, ValueError):  # a float infinity or NaN
-        f = None
-    if f is None or f <= 0:
-        raise ToolError(f'must be a frequency like "12MHz" or "27 MHz", got {value!r}',
-                        subject=subject)  # fmt: skip
-    return f
-
-
-def _family(key: object) -> Family | None:
-    if key is None or isinstance(key, Family):
-        return key
-    if not isinstance(key, str) or key not in FAMILIES:
-        raise ToolError(f"unknown FPGA family {key!r}; choose from {', '.join(FAMILY_KEYS)}",
-                        subject="family")  # fmt: skip
-    return FAMILIES[key]
-
-
 def _specs(specs: object) -> tuple[Spec, ...]:
     if isinstance(specs, (Spec, str, bytes)) or not isinstance(specs, Sequence):
         raise TypeError(f"specs must be a sequence of Spec objects, like [a, b], got {specs!r}")
@@ -263,9 +242,9 @@ def plan_modes(
     non-empty sequence of :class:`Spec`.
     """
     modes = _specs(specs)
-    f_board = _frequency(board_clock, "board_clock_hz")
-    fam = _family(family)
-    bound = None if max_core_clock_hz is None else _frequency(max_core_clock_hz,
+    f_board = frequency_argument(board_clock, "board_clock_hz")
+    fam = family_argument(family)
+    bound = None if max_core_clock_hz is None else frequency_argument(max_core_clock_hz,
                                                                "max_core_clock_hz")  # fmt: skip
     plans = tuple(make_plan(s, f_board=f_board, family=fam) for s in modes)
     if fam is None:

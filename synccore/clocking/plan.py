@@ -20,11 +20,12 @@ from __future__ import annotations
 
 import dataclasses
 from dataclasses import dataclass
+from decimal import Decimal
 from fractions import Fraction
 
 from synccore.clocking import adjust
 from synccore.clocking.adjust import Adjustment
-from synccore.clocking.families import Family
+from synccore.clocking.families import FAMILIES, FAMILY_KEYS, Family
 from synccore.clocking.solve import (
     MONITOR_TOLERANCE,
     TOLERANCE_SOURCE,
@@ -34,8 +35,9 @@ from synccore.clocking.solve import (
     solve,
     solve_enable,
 )
+from synccore.errors import ToolError
 from synccore.model import Timing
-from synccore.spec import Spec, ValueRange
+from synccore.spec import Spec, ValueRange, parse_frequency
 
 RUNNERS_UP = 3
 
@@ -127,3 +129,28 @@ def make_plan(spec: Spec, *, f_board: Fraction, family: Family | None) -> ClockP
         if found is not None:
             plan = dataclasses.replace(plan, adjustment=found)
     return plan
+
+
+def frequency_argument(value: object, subject: str = "board_clock_hz") -> Fraction:
+    """A caller's frequency (number, Decimal or unit string) as an exact positive Fraction;
+    :class:`ToolError` naming ``subject`` otherwise."""
+    number = Fraction(value) if isinstance(value, Decimal) and value.is_finite() else value
+    try:
+        f = parse_frequency(number)
+    except (ArithmeticError, ValueError):  # a float infinity or NaN
+        f = None
+    if f is None or f <= 0:
+        raise ToolError(f'must be a frequency like "12MHz" or "27 MHz", got {value!r}',
+                        subject=subject)  # fmt: skip
+    return f
+
+
+def family_argument(key: object) -> Family | None:
+    """A caller's family key (or a :class:`Family`, or None for no PLL); :class:`ToolError`
+    naming the choices otherwise."""
+    if key is None or isinstance(key, Family):
+        return key
+    if not isinstance(key, str) or key not in FAMILIES:
+        raise ToolError(f"unknown FPGA family {key!r}; choose from {', '.join(FAMILY_KEYS)}",
+                        subject="family")  # fmt: skip
+    return FAMILIES[key]
