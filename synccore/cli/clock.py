@@ -21,7 +21,7 @@ from rich.console import Console
 from rich.markup import escape
 
 from synccore.api import adjusted_text, plan_clock, plan_dvi_link, plan_modes
-from synccore.cli._common import console, fail, fail_spec, load_spec, save
+from synccore.cli._common import console, fail, fail_spec, save
 from synccore.clocking import FAMILY_KEYS
 from synccore.clocking.link import LinkPlan
 from synccore.clocking.link_report import link_dict, link_facts
@@ -236,17 +236,14 @@ _MODES_OPTION = {**_OPTION, "max_core_clock_hz": "--max-core-clock"}
 
 
 def load_specs(paths: tuple[str, ...]) -> list[Spec]:
-    """Every timing at ``paths`` (each mode of a multi-mode spec), or every problem of all of
-    them and exit 2."""
+    """The spec at each of ``paths``, or every problem of all of them and exit 2."""
     specs: list[Spec] = []
     problems: list[Problem] = []
     for path in paths:
         try:
-            spec = load(path)
+            specs.append(load(path))
         except SpecError as err:
             problems += err.problems
-            continue
-        specs += spec.modes or (spec,)
     if problems:
         fail(str(p) for p in problems)
     return specs
@@ -282,10 +279,12 @@ def resolve_modes(specs: list[Spec], paths: tuple[str, ...], board_clock: str | 
     return board, family
 
 
-def run_modes(paths: tuple[str, ...], board_clock: str | None, family: str | None,
-              no_pll: bool, max_core_clock: str | None, as_json: bool) -> None:  # fmt: skip
-    """``clock A B ...``: plan the modes together and print the table and verdict (or JSON)."""
-    specs = load_specs(paths)
+def run_modes(loaded: list[Spec], paths: tuple[str, ...], board_clock: str | None,
+              family: str | None, no_pll: bool, max_core_clock: str | None,
+              as_json: bool) -> None:  # fmt: skip
+    """``clock A B ...``: plan the modes together (each mode of a multi-mode spec) and print
+    the table and verdict (or JSON)."""
+    specs = [mode for spec in loaded for mode in spec.modes or (spec,)]
     if len(paths) != len(specs):  # a multi-mode spec: one path per mode, for the messages
         paths = tuple(f"{s.name} mode {i}" for i, s in enumerate(specs))
     try:
@@ -303,14 +302,6 @@ def run_modes(paths: tuple[str, ...], board_clock: str | None, family: str | Non
     for line in table_lines(MODE_COLUMNS, modes_table(plan)):
         out.print(escape(line))
     _print_facts(verdict_facts(plan), out)
-
-
-def _multi_mode(path: str) -> bool:
-    """Whether the one SPEC given lists several modes (its problems are reported later)."""
-    try:
-        return bool(load(path).modes)
-    except SpecError:
-        return False
 
 
 @click.command()
@@ -338,17 +329,17 @@ def clock(specs: tuple[str, ...], board_clock: str | None, family: str | None, n
     whether one PLL configuration serves every mode through clock-enable divides, or
     each mode needs its own PLL setting.
     """
-    if len(specs) > 1 or _multi_mode(specs[0]):
+    loaded = load_specs(specs)
+    if len(loaded) > 1 or loaded[0].modes:
         for given, option in ((link, "--link"), (write_to, "--write"), (force or None, "--force")):
             if given is not None:
                 fail(f"{option}: not available when planning several modes (several SPEC files or a "
                      "multi-mode spec); give one single-mode SPEC for it")  # fmt: skip
-        run_modes(specs, board_clock, family, no_pll, max_core_clock, as_json)
+        run_modes(loaded, specs, board_clock, family, no_pll, max_core_clock, as_json)
         return
     if max_core_clock is not None:
         fail("--max-core-clock: applies only when planning several SPEC files together")
-    spec = specs[0]
-    s = load_spec(spec)
+    spec, s = specs[0], loaded[0]
     if force and write_to is None:
         fail("--force needs --write")
     if link is not None:
