@@ -11,10 +11,13 @@ import tempfile
 import time
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from synccore.model import MultiTiming
 from synccore.spec import Spec
-from synccore.verification.multimode_run import SwitchingRun
+
+if TYPE_CHECKING:  # the benches' host side is imported when a run starts, not with the API
+    from synccore.verification.multimode_run import SwitchingRun
 
 CYCLES_BENCH_LIMIT = 20_000
 """Longest frame (cycles) the every-cycle bench takes; longer modes run the events bench."""
