@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+from collections.abc import Sequence
+from typing import Any
+
 
 def bit(value: int) -> str:
     """A std_logic literal."""
@@ -26,3 +29,16 @@ def bits(value: int, width: int) -> str:
     if value < 0 or value >= 1 << width:
         raise ValueError(f"{value} does not fit in {width} bits")
     return '"' + format(value, f"0{width}b") + '"'
+
+
+def port_lines(ports: Sequence[Any]) -> list[str]:
+    """A port clause's lines, names and comments aligned: ``name : in  type;  -- comment``
+    (each port has ``name``, ``direction`` "in"/"out", ``width`` and ``comment``)."""
+    name_w = max(len(p.name) for p in ports)
+    rows = []
+    for i, p in enumerate(ports):
+        mode = "in " if p.direction == "in" else "out"
+        end = ";" if i < len(ports) - 1 else ""
+        rows.append((f"{p.name.ljust(name_w)} : {mode} {port_type(p.width)}{end}", p.comment))
+    width = max(len(t) for t, _ in rows)
+    return [f"{t.ljust(width)}  -- {c}" for t, c in rows]

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from synccore.emit._jinja import environment
-from synccore.emit._vhdl import bit, comment_lines, port_type
+from synccore.emit._vhdl import bit, comment_lines, port_lines
 from synccore.emit.core.multi_context import MultiContext, build_multi_context
 from synccore.model.multimode import MultiTiming
 from synccore.spec import Spec
@@ -30,18 +30,11 @@ def _view(ctx: MultiContext) -> dict[str, object]:
         consts.append((f"constant {'SCALE'.ljust(name_w)} : natural     := {ctx.scale};",
                        "x and y are divided by this"))  # fmt: skip
     decl_w = max(len(d) for d, _ in consts)
-    pname_w = max(len(p.name) for p in ctx.ports)
-    ports = []
-    for i, p in enumerate(ctx.ports):
-        mode = "in " if p.direction == "in" else "out"
-        end = ";" if i < len(ctx.ports) - 1 else ""
-        ports.append((f"{p.name.ljust(pname_w)} : {mode} {port_type(p.width)}{end}", p.comment))
-    port_w = max(len(t) for t, _ in ports)
     outputs = [p for p in ctx.ports if p.direction == "out"]
     return {
         "header": comment_lines(ctx.header),
         "constants": [f"{d.ljust(decl_w)}  -- {c}" for d, c in consts],
-        "ports": [f"{t.ljust(port_w)}  -- {c}" for t, c in ports],
+        "ports": port_lines(ctx.ports),
         "reset": ctx.reset_port,
         "reset_level": bit(ctx.reset_active),
         "outputs": [(p.name, p.base + "_q") for p in outputs],
